@@ -1,0 +1,41 @@
+import Link from "next/link";
+import { FlaskConical, LogIn, UserRound } from "lucide-react";
+import { hasRole, roleLabels } from "@/lib/roles";
+import type { Viewer } from "@/server/auth";
+import { Logo } from "./logo";
+
+export function SiteHeader({ viewer }: { viewer: Viewer | null }) {
+  return (
+    <header className="border-b border-line bg-surface">
+      <div className="mx-auto flex max-w-6xl flex-wrap items-center gap-x-6 gap-y-2 px-4 py-3 sm:px-6">
+        <Link href="/" className="flex items-center gap-2 text-teal-strong">
+          <Logo className="h-7 w-7" />
+          <span className="text-lg font-bold tracking-tight">Proofbay</span>
+          <span className="hidden text-sm font-medium text-muted sm:inline">Harbor Street Print Lab</span>
+        </Link>
+        <nav aria-label="Main" className="flex flex-1 flex-wrap items-center justify-end gap-1 text-sm font-medium">
+          <Link href="/" className="rounded-md px-3 py-2 hover:bg-teal-soft">
+            Campaigns
+          </Link>
+          {viewer && hasRole(viewer.role, "host") ? (
+            <Link href="/lab" className="inline-flex items-center gap-1.5 rounded-md px-3 py-2 hover:bg-teal-soft">
+              <FlaskConical className="h-4 w-4" aria-hidden="true" /> Lab
+            </Link>
+          ) : null}
+          {viewer ? (
+            <Link href="/account" className="inline-flex items-center gap-1.5 rounded-md px-3 py-2 hover:bg-teal-soft">
+              <UserRound className="h-4 w-4" aria-hidden="true" />
+              <span className="max-w-40 truncate">{viewer.name ?? viewer.email}</span>
+              <span className="sr-only">({roleLabels[viewer.role]})</span>
+            </Link>
+          ) : (
+            <Link href="/sign-in" className="inline-flex items-center gap-1.5 rounded-md bg-teal px-3 py-2 text-white hover:bg-teal-strong">
+              <LogIn className="h-4 w-4" aria-hidden="true" /> Sign in
+            </Link>
+          )}
+        </nav>
+      </div>
+      <div className="layer-band h-[11px] opacity-15" aria-hidden="true" />
+    </header>
+  );
+}

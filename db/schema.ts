@@ -1,0 +1,458 @@
+import { sql } from "drizzle-orm";
+import {
+  type AnySQLiteColumn,
+  check,
+  index,
+  integer,
+  primaryKey,
+  real,
+  sqliteTable,
+  text,
+  uniqueIndex,
+} from "drizzle-orm/sqlite-core";
+
+/*
+ * Conventions: ids are text UUIDs; timestamps are integer milliseconds since the epoch (UTC);
+ * money is an integer count of minor units beside an ISO 4217 currency code.
+ */
+
+const id = () =>
+  text("id")
+    .primaryKey()
+    .$defaultFn(() => crypto.randomUUID());
+const createdAt = () =>
+  integer("created_at", { mode: "timestamp_ms" })
+    .notNull()
+    .$defaultFn(() => new Date());
+const updatedAt = () =>
+  integer("updated_at", { mode: "timestamp_ms" })
+    .notNull()
+    .$defaultFn(() => new Date())
+    .$onUpdateFn(() => new Date());
+
+export const storedRoles = ["supporter", "host", "admin"] as const;
+export const proposalStates = ["draft", "submitted", "accepted", "declined", "merged"] as const;
+export const proposalKinds = ["duct", "material", "nozzle", "part"] as const;
+export const campaignStates = ["open", "funded", "lapsed", "withdrawn", "queued", "printing", "reported"] as const;
+export const pledgeStates = ["pending", "paid", "refunded", "failed"] as const;
+export const membershipStatuses = ["active", "past_due", "canceled"] as const;
+export const printerStatuses = ["available", "down", "maintenance"] as const;
+export const motionTypes = ["corexy", "bedslinger", "delta"] as const;
+export const jobStates = ["planned", "scheduled", "running", "done", "failed"] as const;
+export const ledgerKinds = [
+  "pledge_payment",
+  "pledge_refund",
+  "membership_payment",
+  "fund_allocation",
+  "fund_release",
+  "processor_fee",
+] as const;
+export const outboxStates = ["queued", "sending", "sent", "failed"] as const;
+export const reportStates = ["draft", "published"] as const;
+export const uploadKinds = ["model", "photo"] as const;
+
+/* ---------- Auth.js tables (names and columns as the Drizzle adapter expects) ---------- */
+
+export const users = sqliteTable("user", {
+  id: id(),
+  name: text("name"),
+  email: text("email").unique(),
+  emailVerified: integer("emailVerified", { mode: "timestamp_ms" }),
+  image: text("image"),
+  /** Stored role; "member" is not stored but derived from an active Filament Club membership. */
+  role: text("role", { enum: storedRoles }).notNull().default("supporter"),
+  createdAt: createdAt(),
+});
+
+export const accounts = sqliteTable(
+  "account",
+  {
+    userId: text("userId")
+      .notNull()
+      .references(() => users.id, { onDelete: "cascade" }),
+    type: text("type").notNull(),
+    provider: text("provider").notNull(),
+    providerAccountId: text("providerAccountId").notNull(),
+    refresh_token: text("refresh_token"),
+    access_token: text("access_token"),
+    expires_at: integer("expires_at"),
+    token_type: text("token_type"),
+    scope: text("scope"),
+    id_token: text("id_token"),
+    session_state: text("session_state"),
+  },
+  (t) => [primaryKey({ columns: [t.provider, t.providerAccountId] })],
+);
+
+export const sessions = sqliteTable(
+  "session",
+  {
+    sessionToken: text("sessionToken").primaryKey(),
+    userId: text("userId")
+      .notNull()
+      .references(() => users.id, { onDelete: "cascade" }),
+    expires: integer("expires", { mode: "timestamp_ms" }).notNull(),
+  },
+  (t) => [index("session_user_idx").on(t.userId)],
+);
+
+export const verificationTokens = sqliteTable(
+  "verificationToken",
+  {
+    identifier: text("identifier").notNull(),
+    token: text("token").notNull(),
+    expires: integer("expires", { mode: "timestamp_ms" }).notNull(),
+  },
+  (t) => [primaryKey({ columns: [t.identifier, t.token] })],
+);
+
+/* ---------- Lab ---------- */
+
+/** One row (id = 1): the lab's rates and defaults, edited by an admin. */
+export const labSettings = sqliteTable(
+  "lab_settings",
+  {
+    id: integer("id").primaryKey(),
+    labName: text("lab_name").notNull(),
+    currency: text("currency").notNull(),
+    timeZone: text("time_zone").notNull(),
+    labourRateMinorPerHour: integer("labour_rate_minor_per_hour").notNull(),
+    feeBasisPoints: integer("fee_basis_points").notNull(),
+    feeFixedMinor: integer("fee_fixed_minor").notNull(),
+    contingencyPercent: integer("contingency_percent").notNull(),
+    reportPrepHours: integer("report_prep_hours").notNull(),
+    updatedAt: updatedAt(),
+  },
+  (t) => [check("lab_settings_single_row", sql`${t.id} = 1`)],
+);
+
+export const printers = sqliteTable("printer", {
+  id: id(),
+  slug: text("slug").notNull().unique(),
+  name: text("name").notNull(),
+  model: text("model").notNull(),
+  motionType: text("motion_type", { enum: motionTypes }).notNull(),
+  buildXmm: integer("build_x_mm").notNull(),
+  buildYmm: integer("build_y_mm").notNull(),
+  buildZmm: integer("build_z_mm").notNull(),
+  nozzleMm: real("nozzle_mm").notNull(),
+  maxFlowMm3PerS: real("max_flow_mm3_per_s").notNull(),
+  /** Fraction of the maximum flow achieved on average (acceleration, travel, slow features). */
+  efficiency: real("efficiency").notNull(),
+  enclosed: integer("enclosed", { mode: "boolean" }).notNull(),
+  /** JSON array of material codes, e.g. ["PLA","PETG"]. */
+  materials: text("materials", { mode: "json" }).$type<string[]>().notNull(),
+  hourlyRateMinor: integer("hourly_rate_minor").notNull(),
+  status: text("status", { enum: printerStatuses }).notNull().default("available"),
+  createdAt: createdAt(),
+});
+
+/* ---------- Proposals ---------- */
+
+export const proposals = sqliteTable(
+  "proposal",
+  {
+    id: id(),
+    slug: text("slug").notNull().unique(),
+    title: text("title").notNull(),
+    kind: text("kind", { enum: proposalKinds }).notNull(),
+    printerType: text("printer_type", { enum: motionTypes }).notNull(),
+    why: text("why").notNull(),
+    descriptionMd: text("description_md").notNull().default(""),
+    state: text("state", { enum: proposalStates }).notNull().default("draft"),
+    proposerId: text("proposer_id")
+      .notNull()
+      .references(() => users.id),
+    mergedIntoId: text("merged_into_id").references((): AnySQLiteColumn => proposals.id),
+    declineReason: text("decline_reason"),
+    submittedAt: integer("submitted_at", { mode: "timestamp_ms" }),
+    createdAt: createdAt(),
+    updatedAt: updatedAt(),
+  },
+  (t) => [
+    index("proposal_state_idx").on(t.state, t.createdAt),
+    index("proposal_proposer_idx").on(t.proposerId),
+  ],
+);
+
+export const proposalVotes = sqliteTable(
+  "proposal_vote",
+  {
+    proposalId: text("proposal_id")
+      .notNull()
+      .references(() => proposals.id, { onDelete: "cascade" }),
+    userId: text("user_id")
+      .notNull()
+      .references(() => users.id, { onDelete: "cascade" }),
+    createdAt: createdAt(),
+  },
+  (t) => [primaryKey({ columns: [t.proposalId, t.userId] })],
+);
+
+/* ---------- Campaigns and test plans ---------- */
+
+export const campaigns = sqliteTable(
+  "campaign",
+  {
+    id: id(),
+    slug: text("slug").notNull().unique(),
+    proposalId: text("proposal_id").references(() => proposals.id),
+    title: text("title").notNull(),
+    summary: text("summary").notNull(),
+    state: text("state", { enum: campaignStates }).notNull().default("open"),
+    goalMinor: integer("goal_minor").notNull(),
+    currency: text("currency").notNull(),
+    /** Reason shown to backers when the host overrides the computed goal. */
+    goalOverrideReason: text("goal_override_reason"),
+    deadline: integer("deadline", { mode: "timestamp_ms" }).notNull(),
+    openedAt: integer("opened_at", { mode: "timestamp_ms" }).notNull(),
+    fundedAt: integer("funded_at", { mode: "timestamp_ms" }),
+    closedAt: integer("closed_at", { mode: "timestamp_ms" }),
+    withdrawReason: text("withdraw_reason"),
+    hostId: text("host_id").references(() => users.id),
+    createdAt: createdAt(),
+  },
+  (t) => [index("campaign_state_idx").on(t.state, t.deadline), check("campaign_goal_positive", sql`${t.goalMinor} > 0`)],
+);
+
+export const testPlans = sqliteTable("test_plan", {
+  id: id(),
+  campaignId: text("campaign_id")
+    .notNull()
+    .unique()
+    .references(() => campaigns.id, { onDelete: "cascade" }),
+  material: text("material").notNull(),
+  layerHeightMm: real("layer_height_mm").notNull(),
+  maxFlowMm3PerS: real("max_flow_mm3_per_s").notNull(),
+  fanPercent: integer("fan_percent").notNull(),
+  repeats: integer("repeats").notNull(),
+  printerId: text("printer_id").references(() => printers.id),
+  estimatedHours: real("estimated_hours"),
+  notesMd: text("notes_md").notNull().default(""),
+});
+
+export const testPlanPieces = sqliteTable("test_plan_piece", {
+  id: id(),
+  testPlanId: text("test_plan_id")
+    .notNull()
+    .references(() => testPlans.id, { onDelete: "cascade" }),
+  name: text("name").notNull(),
+  filamentGrams: real("filament_grams").notNull(),
+  position: integer("position").notNull(),
+});
+
+export const testPlanVariants = sqliteTable("test_plan_variant", {
+  id: id(),
+  testPlanId: text("test_plan_id")
+    .notNull()
+    .references(() => testPlans.id, { onDelete: "cascade" }),
+  name: text("name").notNull(),
+  isReference: integer("is_reference", { mode: "boolean" }).notNull().default(false),
+  position: integer("position").notNull(),
+});
+
+export const jobs = sqliteTable(
+  "job",
+  {
+    id: id(),
+    campaignId: text("campaign_id")
+      .notNull()
+      .references(() => campaigns.id, { onDelete: "cascade" }),
+    pieceId: text("piece_id")
+      .notNull()
+      .references(() => testPlanPieces.id, { onDelete: "cascade" }),
+    variantId: text("variant_id")
+      .notNull()
+      .references(() => testPlanVariants.id, { onDelete: "cascade" }),
+    repeat: integer("repeat").notNull(),
+    printerId: text("printer_id").references(() => printers.id),
+    state: text("state", { enum: jobStates }).notNull().default("planned"),
+    estimatedHours: real("estimated_hours").notNull(),
+    scheduledStart: integer("scheduled_start", { mode: "timestamp_ms" }),
+    actualHours: real("actual_hours"),
+    filamentUsedGrams: real("filament_used_grams"),
+    notes: text("notes"),
+  },
+  (t) => [
+    uniqueIndex("job_identity_idx").on(t.campaignId, t.pieceId, t.variantId, t.repeat),
+    index("job_printer_idx").on(t.printerId, t.state),
+  ],
+);
+
+/* ---------- Money ---------- */
+
+export const pledges = sqliteTable(
+  "pledge",
+  {
+    id: id(),
+    campaignId: text("campaign_id")
+      .notNull()
+      .references(() => campaigns.id),
+    supporterId: text("supporter_id")
+      .notNull()
+      .references(() => users.id),
+    amountMinor: integer("amount_minor").notNull(),
+    currency: text("currency").notNull(),
+    state: text("state", { enum: pledgeStates }).notNull().default("pending"),
+    /** Shown on the campaign page only when the backer allows it. */
+    publicName: text("public_name"),
+    checkoutSessionId: text("checkout_session_id").unique(),
+    paymentIntentId: text("payment_intent_id").unique(),
+    refundId: text("refund_id").unique(),
+    createdAt: createdAt(),
+    paidAt: integer("paid_at", { mode: "timestamp_ms" }),
+    refundedAt: integer("refunded_at", { mode: "timestamp_ms" }),
+  },
+  (t) => [
+    index("pledge_campaign_idx").on(t.campaignId, t.state),
+    index("pledge_supporter_idx").on(t.supporterId),
+    check("pledge_amount_positive", sql`${t.amountMinor} > 0`),
+  ],
+);
+
+export const membershipPlans = sqliteTable("membership_plan", {
+  code: text("code", { enum: ["spool", "reel", "workshop"] }).primaryKey(),
+  name: text("name").notNull(),
+  monthlyMinor: integer("monthly_minor").notNull(),
+  currency: text("currency").notNull(),
+  monthlyVotes: integer("monthly_votes").notNull(),
+  earlyBlindPairs: integer("early_blind_pairs", { mode: "boolean" }).notNull(),
+  stripePriceId: text("stripe_price_id"),
+  position: integer("position").notNull(),
+});
+
+export const memberships = sqliteTable(
+  "membership",
+  {
+    id: id(),
+    userId: text("user_id")
+      .notNull()
+      .references(() => users.id),
+    planCode: text("plan_code")
+      .notNull()
+      .references(() => membershipPlans.code),
+    status: text("status", { enum: membershipStatuses }).notNull(),
+    subscriptionId: text("subscription_id").unique(),
+    currentPeriodEnd: integer("current_period_end", { mode: "timestamp_ms" }).notNull(),
+    startedAt: integer("started_at", { mode: "timestamp_ms" }).notNull(),
+    canceledAt: integer("canceled_at", { mode: "timestamp_ms" }),
+  },
+  (t) => [
+    index("membership_user_idx").on(t.userId, t.status),
+    // At most one live membership per person; canceled ones stay as history.
+    uniqueIndex("membership_one_live_idx")
+      .on(t.userId)
+      .where(sql`${t.status} in ('active', 'past_due')`),
+  ],
+);
+
+/**
+ * Every money movement, once. `externalRef` (processor event or object id plus kind) is unique
+ * so a replayed webhook cannot write a second row.
+ */
+export const ledgerEntries = sqliteTable(
+  "ledger_entry",
+  {
+    id: id(),
+    kind: text("kind", { enum: ledgerKinds }).notNull(),
+    /** Signed: money into the lab is positive, money out (refunds, fees) negative. */
+    amountMinor: integer("amount_minor").notNull(),
+    currency: text("currency").notNull(),
+    campaignId: text("campaign_id").references(() => campaigns.id),
+    pledgeId: text("pledge_id").references(() => pledges.id),
+    membershipId: text("membership_id").references(() => memberships.id),
+    externalRef: text("external_ref").notNull().unique(),
+    memo: text("memo"),
+    occurredAt: integer("occurred_at", { mode: "timestamp_ms" }).notNull(),
+  },
+  (t) => [index("ledger_campaign_idx").on(t.campaignId), index("ledger_occurred_idx").on(t.occurredAt)],
+);
+
+/* ---------- Reports ---------- */
+
+export const reports = sqliteTable("report", {
+  id: id(),
+  campaignId: text("campaign_id")
+    .notNull()
+    .unique()
+    .references(() => campaigns.id),
+  state: text("state", { enum: reportStates }).notNull().default("draft"),
+  summary: text("summary").notNull().default(""),
+  bodyMd: text("body_md").notNull().default(""),
+  videoUrl: text("video_url"),
+  publishedAt: integer("published_at", { mode: "timestamp_ms" }),
+  createdAt: createdAt(),
+  updatedAt: updatedAt(),
+});
+
+/* ---------- E-mail outbox ---------- */
+
+/**
+ * Mail is written here in the same transaction as the event that causes it and sent later by a
+ * worker. `dedupeKey` (recipient + event) is unique, so each message exists at most once.
+ */
+export const outbox = sqliteTable(
+  "outbox",
+  {
+    id: id(),
+    dedupeKey: text("dedupe_key").notNull().unique(),
+    toAddress: text("to_address").notNull(),
+    template: text("template").notNull(),
+    subject: text("subject").notNull(),
+    payload: text("payload", { mode: "json" }).$type<Record<string, unknown>>().notNull(),
+    state: text("state", { enum: outboxStates }).notNull().default("queued"),
+    attempts: integer("attempts").notNull().default(0),
+    nextAttemptAt: integer("next_attempt_at", { mode: "timestamp_ms" }).notNull(),
+    lastError: text("last_error"),
+    createdAt: createdAt(),
+    sentAt: integer("sent_at", { mode: "timestamp_ms" }),
+  },
+  (t) => [index("outbox_due_idx").on(t.state, t.nextAttemptAt)],
+);
+
+/* ---------- Uploads ---------- */
+
+export const uploads = sqliteTable(
+  "upload",
+  {
+    id: id(),
+    /** SHA-256 of the content, hex; also the stored file name. */
+    sha256: text("sha256").notNull(),
+    kind: text("kind", { enum: uploadKinds }).notNull(),
+    mimeType: text("mime_type").notNull(),
+    sizeBytes: integer("size_bytes").notNull(),
+    originalName: text("original_name").notNull(),
+    ownerId: text("owner_id")
+      .notNull()
+      .references(() => users.id),
+    proposalId: text("proposal_id").references(() => proposals.id, { onDelete: "set null" }),
+    createdAt: createdAt(),
+  },
+  (t) => [index("upload_proposal_idx").on(t.proposalId), uniqueIndex("upload_owner_hash_idx").on(t.ownerId, t.sha256)],
+);
+
+export type User = typeof users.$inferSelect;
+export type NewUser = typeof users.$inferInsert;
+export type StoredRole = (typeof storedRoles)[number];
+export type Printer = typeof printers.$inferSelect;
+export type NewPrinter = typeof printers.$inferInsert;
+export type Proposal = typeof proposals.$inferSelect;
+export type NewProposal = typeof proposals.$inferInsert;
+export type ProposalState = (typeof proposalStates)[number];
+export type Campaign = typeof campaigns.$inferSelect;
+export type NewCampaign = typeof campaigns.$inferInsert;
+export type CampaignState = (typeof campaignStates)[number];
+export type TestPlan = typeof testPlans.$inferSelect;
+export type TestPlanPiece = typeof testPlanPieces.$inferSelect;
+export type TestPlanVariant = typeof testPlanVariants.$inferSelect;
+export type Job = typeof jobs.$inferSelect;
+export type Pledge = typeof pledges.$inferSelect;
+export type NewPledge = typeof pledges.$inferInsert;
+export type PledgeState = (typeof pledgeStates)[number];
+export type MembershipPlan = typeof membershipPlans.$inferSelect;
+export type Membership = typeof memberships.$inferSelect;
+export type LedgerEntry = typeof ledgerEntries.$inferSelect;
+export type Report = typeof reports.$inferSelect;
+export type OutboxMessage = typeof outbox.$inferSelect;
+export type Upload = typeof uploads.$inferSelect;
+export type LabSettings = typeof labSettings.$inferSelect;

@@ -1,0 +1,13 @@
+import { defineConfig } from "vitest/config";
+import path from "node:path";
+
+export default defineConfig({
+  resolve: { alias: { "@": path.resolve(import.meta.dirname) } },
+  test: {
+    include: ["tests/unit/**/*.test.ts", "tests/integration/**/*.test.ts", "lib/**/*.test.ts"],
+    environment: "node",
+    pool: "forks",
+    testTimeout: 20_000,
+    server: { deps: { inline: ["next-auth", "@auth/core"] } },
+  },
+});
