@@ -16,7 +16,12 @@ export type BoardFigures = {
 
 async function firstLoadJavaScript(appUrl: string): Promise<{ bytes: number; count: number }> {
   const html = await (await fetch(appUrl)).text();
-  const sources = [...html.matchAll(/<script[^>]+src="([^"]+)"/g)].map((match) => match[1] as string);
+  // Modern browsers skip noModule scripts (the legacy polyfill bundle), so they are not first-load JS.
+  const sources = [...html.matchAll(/<script([^>]*)>/g)]
+    .map((match) => match[1] as string)
+    .filter((attributes) => !/\bnomodule\b/i.test(attributes))
+    .map((attributes) => /\bsrc="([^"]+)"/.exec(attributes)?.[1])
+    .filter((source): source is string => source !== undefined);
   const unique = [...new Set(sources)];
   let bytes = 0;
   for (const source of unique) {

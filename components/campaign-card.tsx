@@ -1,5 +1,6 @@
 import Link from "next/link";
-import { CalendarClock, Users } from "lucide-react";
+import { CalendarClock, Users } from "lucide";
+import { Icon } from "@/components/ui/icon";
 import type { BoardCampaign } from "@/db/queries/campaigns";
 import { fundingProgress, timeLeft } from "@/lib/campaign/progress";
 import { formatDate, formatMoney } from "@/lib/format";
@@ -30,10 +31,10 @@ export function CampaignCard({ campaign, now, timeZone }: { campaign: BoardCampa
         </p>
         <div className="flex flex-wrap items-center gap-x-4 gap-y-1 text-xs text-muted">
           <span className="inline-flex items-center gap-1">
-            <Users className="h-3.5 w-3.5" aria-hidden="true" /> {campaign.backerCount} backers
+            <Icon node={Users} className="h-3.5 w-3.5" /> {campaign.backerCount} backers
           </span>
           <span className="inline-flex items-center gap-1">
-            <CalendarClock className="h-3.5 w-3.5" aria-hidden="true" />
+            <Icon node={CalendarClock} className="h-3.5 w-3.5" />
             {isOpen ? `${timeLeft(campaign.deadline, now)} · ` : "Deadline "}
             <time dateTime={campaign.deadline.toISOString()}>{formatDate(campaign.deadline, timeZone)}</time>
           </span>

@@ -1,17 +1,11 @@
-/** ISO 4217 minor-unit exponent as the platform's Intl data knows it (USD 2, JPY 0, BHD 3). */
-export function minorUnitExponent(currency: string): number {
-  return new Intl.NumberFormat("en", { style: "currency", currency }).resolvedOptions().maximumFractionDigits ?? 2;
-}
+import { formatMoney as formatExactMoney, isCurrencyCode, minorUnitExponent } from "./money";
 
+/** Display form: whole amounts without decimals ("$400"), others exact ("$1,234.56"). */
 export function formatMoney(minor: number, currency: string, locale = "en-US"): string {
-  const exponent = minorUnitExponent(currency);
-  const whole = Number.isInteger(minor / 10 ** exponent);
-  return new Intl.NumberFormat(locale, {
-    style: "currency",
-    currency,
-    minimumFractionDigits: whole ? 0 : exponent,
-    maximumFractionDigits: exponent,
-  }).format(minor / 10 ** exponent);
+  if (!isCurrencyCode(currency)) throw new RangeError(`Unsupported currency ${currency}`);
+  const perMajor = 10 ** minorUnitExponent(currency);
+  if (minor % perMajor !== 0) return formatExactMoney(minor, currency, locale);
+  return new Intl.NumberFormat(locale, { style: "currency", currency, maximumFractionDigits: 0 }).format(minor / perMajor);
 }
 
 export function formatDate(date: Date, timeZone: string, locale = "en-US"): string {

@@ -27,3 +27,11 @@ export const roleLabels: Record<Role, string> = {
   host: "Host",
   admin: "Admin",
 };
+
+export const shortRoleLabels: Record<Role, string> = {
+  visitor: "visitor",
+  supporter: "supporter",
+  member: "member",
+  host: "host",
+  admin: "admin",
+};

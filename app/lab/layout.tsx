@@ -1,5 +1,6 @@
 import Link from "next/link";
-import { FlaskConical } from "lucide-react";
+import { FlaskConical } from "lucide";
+import { Icon } from "@/components/ui/icon";
 import { requirePageRole } from "@/server/guards";
 
 export default async function LabLayout({ children }: { children: React.ReactNode }) {
@@ -8,7 +9,7 @@ export default async function LabLayout({ children }: { children: React.ReactNod
     <div className="flex flex-col gap-6">
       <div className="flex flex-wrap items-center gap-4 border-b border-line pb-3">
         <p className="inline-flex items-center gap-2 text-sm font-semibold uppercase tracking-wide text-ember">
-          <FlaskConical className="h-4 w-4" aria-hidden="true" /> Lab
+          <Icon node={FlaskConical} className="h-4 w-4" /> Lab
         </p>
         <nav aria-label="Lab" className="flex gap-1 text-sm font-medium">
           <Link href="/lab/proposals" className="rounded-md px-3 py-1.5 hover:bg-teal-soft">

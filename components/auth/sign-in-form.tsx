@@ -1,7 +1,8 @@
 "use client";
 
 import { useActionState } from "react";
-import { Mail } from "lucide-react";
+import { Mail } from "lucide";
+import { Icon } from "@/components/ui/icon";
 import { requestSignInLink, type SignInFormState } from "@/app/(auth)/sign-in/actions";
 import { Button } from "@/components/ui/button";
 
@@ -32,7 +33,7 @@ export function SignInForm({ callbackUrl }: { callbackUrl: string }) {
       )}
       {state.error && !emailError ? <p role="alert" className="text-sm text-rose">{state.error}</p> : null}
       <Button type="submit" disabled={pending}>
-        <Mail className="h-4 w-4" aria-hidden="true" /> {pending ? "Sending…" : "E-mail me a sign-in link"}
+        <Icon node={Mail} className="h-4 w-4" /> {pending ? "Sending…" : "E-mail me a sign-in link"}
       </Button>
     </form>
   );

@@ -1,5 +1,6 @@
 import Link from "next/link";
-import { FlaskConical, LogIn, UserRound } from "lucide-react";
+import { FlaskConical, LogIn, UserRound } from "lucide";
+import { Icon } from "@/components/ui/icon";
 import { hasRole, roleLabels } from "@/lib/roles";
 import type { Viewer } from "@/server/auth";
 import { Logo } from "./logo";
@@ -19,18 +20,18 @@ export function SiteHeader({ viewer }: { viewer: Viewer | null }) {
           </Link>
           {viewer && hasRole(viewer.role, "host") ? (
             <Link href="/lab" className="inline-flex items-center gap-1.5 rounded-md px-3 py-2 hover:bg-teal-soft">
-              <FlaskConical className="h-4 w-4" aria-hidden="true" /> Lab
+              <Icon node={FlaskConical} className="h-4 w-4" /> Lab
             </Link>
           ) : null}
           {viewer ? (
             <Link href="/account" className="inline-flex items-center gap-1.5 rounded-md px-3 py-2 hover:bg-teal-soft">
-              <UserRound className="h-4 w-4" aria-hidden="true" />
+              <Icon node={UserRound} className="h-4 w-4" />
               <span className="max-w-40 truncate">{viewer.name ?? viewer.email}</span>
               <span className="sr-only">({roleLabels[viewer.role]})</span>
             </Link>
           ) : (
             <Link href="/sign-in" className="inline-flex items-center gap-1.5 rounded-md bg-teal px-3 py-2 text-white hover:bg-teal-strong">
-              <LogIn className="h-4 w-4" aria-hidden="true" /> Sign in
+              <Icon node={LogIn} className="h-4 w-4" /> Sign in
             </Link>
           )}
         </nav>

@@ -11,22 +11,43 @@ import {
   testPlanVariants,
 } from "../schema";
 
-/** Paid pledges on the campaign, in minor units. */
-const pledgedMinor = sql<number>`coalesce((
-  select sum(${pledges.amountMinor}) from ${pledges}
-  where ${pledges.campaignId} = ${campaigns.id} and ${pledges.state} = 'paid'), 0)`;
-
-/** Lab-fund money moved to the campaign: allocations leave the fund (negative), releases return. */
-const labFundMinor = sql<number>`coalesce((
-  select -sum(${ledgerEntries.amountMinor}) from ${ledgerEntries}
-  where ${ledgerEntries.campaignId} = ${campaigns.id}
-    and ${ledgerEntries.kind} in ('fund_allocation', 'fund_release')), 0)`;
-
-const backerCount = sql<number>`(
-  select count(distinct ${pledges.supporterId}) from ${pledges}
-  where ${pledges.campaignId} = ${campaigns.id} and ${pledges.state} in ('paid', 'refunded'))`;
+/**
+ * Per-campaign money, as subqueries joined on campaign id: paid pledges, people who backed it
+ * (paid or since refunded), and lab-fund money moved to it (allocations leave the fund as negative
+ * ledger rows, releases return it).
+ */
+function fundingSubqueries(db: Db) {
+  const pledgeTotals = db
+    .select({
+      campaignId: pledges.campaignId,
+      pledgedMinor: sql<number>`coalesce(sum(case when ${pledges.state} = 'paid' then ${pledges.amountMinor} end), 0)`.as(
+        "pledged_minor",
+      ),
+      backerCount: sql<number>`count(distinct ${pledges.supporterId})`.as("backer_count"),
+    })
+    .from(pledges)
+    .where(inArray(pledges.state, ["paid", "refunded"]))
+    .groupBy(pledges.campaignId)
+    .as("pledge_totals");
+  const fundTotals = db
+    .select({
+      campaignId: ledgerEntries.campaignId,
+      labFundMinor: sql<number>`-sum(${ledgerEntries.amountMinor})`.as("lab_fund_minor"),
+    })
+    .from(ledgerEntries)
+    .where(inArray(ledgerEntries.kind, ["fund_allocation", "fund_release"]))
+    .groupBy(ledgerEntries.campaignId)
+    .as("fund_totals");
+  const columns = {
+    pledgedMinor: sql<number>`coalesce(${pledgeTotals.pledgedMinor}, 0)`.mapWith(Number),
+    labFundMinor: sql<number>`coalesce(${fundTotals.labFundMinor}, 0)`.mapWith(Number),
+    backerCount: sql<number>`coalesce(${pledgeTotals.backerCount}, 0)`.mapWith(Number),
+  };
+  return { pledgeTotals, fundTotals, columns };
+}
 
 export function listBoardCampaigns(db: Db) {
+  const { pledgeTotals, fundTotals, columns } = fundingSubqueries(db);
   return db
     .select({
       id: campaigns.id,
@@ -38,11 +59,11 @@ export function listBoardCampaigns(db: Db) {
       currency: campaigns.currency,
       deadline: campaigns.deadline,
       fundedAt: campaigns.fundedAt,
-      pledgedMinor,
-      labFundMinor,
-      backerCount,
+      ...columns,
     })
     .from(campaigns)
+    .leftJoin(pledgeTotals, eq(pledgeTotals.campaignId, campaigns.id))
+    .leftJoin(fundTotals, eq(fundTotals.campaignId, campaigns.id))
     .orderBy(asc(campaigns.deadline))
     .all();
 }
@@ -50,14 +71,12 @@ export function listBoardCampaigns(db: Db) {
 export type BoardCampaign = ReturnType<typeof listBoardCampaigns>[number];
 
 export function getCampaignBySlug(db: Db, slug: string) {
+  const { pledgeTotals, fundTotals, columns } = fundingSubqueries(db);
   const campaign = db
-    .select({
-      campaign: campaigns,
-      pledgedMinor,
-      labFundMinor,
-      backerCount,
-    })
+    .select({ campaign: campaigns, ...columns })
     .from(campaigns)
+    .leftJoin(pledgeTotals, eq(pledgeTotals.campaignId, campaigns.id))
+    .leftJoin(fundTotals, eq(fundTotals.campaignId, campaigns.id))
     .where(eq(campaigns.slug, slug))
     .get();
   if (!campaign) return undefined;

@@ -13,6 +13,7 @@ test("a visitor sees the board of seeded campaigns and a campaign's plan and ple
   await expect(page.getByRole("heading", { name: "Open for pledges" })).toBeVisible();
   const cards = page.getByRole("progressbar");
   expect(await cards.count()).toBeGreaterThanOrEqual(5);
+  await expect(page.getByText(/^\$[1-9][\d,]*$/).first()).toBeVisible();
   await page.getByRole("main").getByRole("link").first().click();
   await expect(page.getByRole("heading", { name: "Test plan" })).toBeVisible();
   await expect(page.getByRole("heading", { name: "Pledges so far" })).toBeVisible();

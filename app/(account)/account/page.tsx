@@ -1,5 +1,6 @@
 import type { Metadata } from "next";
-import { LogOut } from "lucide-react";
+import { LogOut } from "lucide";
+import { Icon } from "@/components/ui/icon";
 import { signOutAction } from "@/app/(auth)/sign-in/actions";
 import { Button } from "@/components/ui/button";
 import { Card } from "@/components/ui/card";
@@ -24,7 +25,7 @@ export default async function AccountPage() {
         </dl>
         <form action={signOutAction}>
           <Button type="submit" variant="secondary">
-            <LogOut className="h-4 w-4" aria-hidden="true" /> Sign out
+            <Icon node={LogOut} className="h-4 w-4" /> Sign out
           </Button>
         </form>
       </Card>

@@ -1,5 +1,6 @@
 import Link from "next/link";
-import { LinkIcon } from "lucide-react";
+import { Unlink } from "lucide";
+import { Icon } from "@/components/ui/icon";
 import { Button } from "@/components/ui/button";
 import { Card } from "@/components/ui/card";
 
@@ -26,7 +27,7 @@ export function LinkProblem({ reason }: { reason: LinkProblemReason }) {
   return (
     <div className="mx-auto flex max-w-md flex-col gap-4">
       <Card className="flex flex-col items-start gap-3">
-        <LinkIcon className="h-8 w-8 text-ember" aria-hidden="true" />
+        <Icon node={Unlink} className="h-8 w-8 text-ember" />
         <h1 className="text-2xl font-bold">{message.title}</h1>
         <p>{message.text}</p>
         <Button asChild>

@@ -8,7 +8,7 @@ import { users } from "@/db/schema";
 import { hasActiveMembership } from "@/db/queries/users";
 import { demoAccountEmails } from "@/lib/demo-accounts";
 import { env } from "@/lib/env";
-import { effectiveRole, roleLabels } from "@/lib/roles";
+import { effectiveRole, roleLabels, shortRoleLabels } from "@/lib/roles";
 import { signInAsDemoAccount } from "./actions";
 
 export const metadata: Metadata = { title: "Sign in" };
@@ -35,7 +35,12 @@ export default async function SignInPage({ searchParams }: Props) {
 
 function DemoAccounts() {
   const db = getDb();
-  const accounts = db.select().from(users).where(inArray(users.email, [...demoAccountEmails])).all();
+  const accounts = db
+    .select()
+    .from(users)
+    .where(inArray(users.email, [...demoAccountEmails]))
+    .all()
+    .sort((a, b) => demoAccountEmails.indexOf(a.email as never) - demoAccountEmails.indexOf(b.email as never));
   const now = new Date();
   return (
     <Card className="border-dashed">
@@ -53,7 +58,7 @@ function DemoAccounts() {
                   <span className="block text-xs text-muted">{roleLabels[role]} · {account.email}</span>
                 </span>
                 <Button type="submit" variant="secondary" size="sm" aria-label={`Sign in as ${account.name}, ${roleLabels[role]}`}>
-                  Sign in as {roleLabels[role].split(" ")[0]}
+                  Sign in as {shortRoleLabels[role]}
                 </Button>
               </form>
             </li>

@@ -1,6 +1,7 @@
 import type { Metadata } from "next";
 import Link from "next/link";
-import { ShieldAlert } from "lucide-react";
+import { ShieldAlert } from "lucide";
+import { Icon } from "@/components/ui/icon";
 import { Button } from "@/components/ui/button";
 import { Card } from "@/components/ui/card";
 import { roleLabels, roles, type Role } from "@/lib/roles";
@@ -13,7 +14,7 @@ export default async function ForbiddenPage({ searchParams }: { searchParams: Pr
   return (
     <div className="mx-auto flex max-w-md flex-col gap-4">
       <Card className="flex flex-col items-start gap-3">
-        <ShieldAlert className="h-8 w-8 text-ember" aria-hidden="true" />
+        <Icon node={ShieldAlert} className="h-8 w-8 text-ember" />
         <h1 className="text-2xl font-bold">This part of Proofbay is not for your account</h1>
         <p>It needs the {roleLabels[required]} role. The lab area is where the lab&apos;s hosts triage, plan and run tests.</p>
         <Button asChild variant="secondary">

@@ -1,6 +1,7 @@
 import type { Metadata } from "next";
 import Link from "next/link";
-import { KeyRound } from "lucide-react";
+import { KeyRound } from "lucide";
+import { Icon } from "@/components/ui/icon";
 import { Button } from "@/components/ui/button";
 import { Card } from "@/components/ui/card";
 import { getDb } from "@/db";
@@ -25,7 +26,7 @@ export default async function ConfirmSignInPage({ searchParams }: Props) {
   return (
     <div className="mx-auto flex max-w-md flex-col gap-4">
       <Card className="flex flex-col items-start gap-4">
-        <KeyRound className="h-8 w-8 text-teal" aria-hidden="true" />
+        <Icon node={KeyRound} className="h-8 w-8 text-teal" />
         <h1 className="text-2xl font-bold">Finish signing in</h1>
         <p>
           Signing in as <strong>{email}</strong>.

@@ -1,6 +1,7 @@
 import type { Metadata } from "next";
 import { notFound } from "next/navigation";
-import { AlertTriangle, CalendarClock, Layers, Printer, Repeat, Users } from "lucide-react";
+import { AlertTriangle, CalendarClock, Layers, Printer, Repeat, Users } from "lucide";
+import { Icon } from "@/components/ui/icon";
 import { CampaignStateBadge } from "@/components/campaign-state-badge";
 import { Card } from "@/components/ui/card";
 import { ProgressBar } from "@/components/ui/progress-bar";
@@ -43,10 +44,10 @@ export default async function CampaignPage({ params }: Props) {
           {plan ? (
             <Card className="flex flex-col gap-5">
               <dl className="grid grid-cols-2 gap-4 text-sm sm:grid-cols-4">
-                <PlanFact icon={<Layers className="h-4 w-4" />} label="Material" value={`${plan.material}, ${plan.layerHeightMm} mm layers`} />
-                <PlanFact icon={<Printer className="h-4 w-4" />} label="Printer" value={printer ? `${printer.name} (${printer.model})` : "Not chosen yet"} />
-                <PlanFact icon={<Repeat className="h-4 w-4" />} label="Repeats" value={`${plan.repeats} of each`} />
-                <PlanFact icon={<Layers className="h-4 w-4" />} label="Prints" value={`${jobCount} jobs`} />
+                <PlanFact icon={<Icon node={Layers} className="h-4 w-4" />} label="Material" value={`${plan.material}, ${plan.layerHeightMm} mm layers`} />
+                <PlanFact icon={<Icon node={Printer} className="h-4 w-4" />} label="Printer" value={printer ? `${printer.name} (${printer.model})` : "Not chosen yet"} />
+                <PlanFact icon={<Icon node={Repeat} className="h-4 w-4" />} label="Repeats" value={`${plan.repeats} of each`} />
+                <PlanFact icon={<Icon node={Layers} className="h-4 w-4" />} label="Prints" value={`${jobCount} jobs`} />
               </dl>
               <p className="text-sm text-muted">
                 Protocol: up to {plan.maxFlowMm3PerS} mm³/s volumetric flow, part-cooling fan at {plan.fanPercent} %.
@@ -85,7 +86,7 @@ export default async function CampaignPage({ params }: Props) {
         {cautions.length > 0 ? (
           <section aria-labelledby="cautions-heading">
             <h2 id="cautions-heading" className="mb-3 flex items-center gap-2 text-xl font-semibold">
-              <AlertTriangle className="h-5 w-5 text-ember" aria-hidden="true" /> Safety in this test
+              <Icon node={AlertTriangle} className="h-5 w-5 text-ember" /> Safety in this test
             </h2>
             <ul className="grid gap-3 sm:grid-cols-2">
               {cautions.map((caution) => (
@@ -140,10 +141,10 @@ export default async function CampaignPage({ params }: Props) {
             <p className="text-xs text-muted">Includes {formatMoney(found.labFundMinor, campaign.currency)} from the lab fund.</p>
           ) : null}
           <p className="flex items-center gap-2 text-sm">
-            <Users className="h-4 w-4 text-muted" aria-hidden="true" /> {found.backerCount} backers
+            <Icon node={Users} className="h-4 w-4 text-muted" /> {found.backerCount} backers
           </p>
           <p className="flex items-center gap-2 text-sm">
-            <CalendarClock className="h-4 w-4 text-muted" aria-hidden="true" />
+            <Icon node={CalendarClock} className="h-4 w-4 text-muted" />
             <span>
               {campaign.state === "open" ? `${timeLeft(campaign.deadline, now)} — ` : "Deadline was "}
               <time dateTime={campaign.deadline.toISOString()}>{formatDateTime(campaign.deadline, settings.timeZone)}</time>
