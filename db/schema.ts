@@ -121,6 +121,8 @@ export const labSettings = sqliteTable(
     feeFixedMinor: integer("fee_fixed_minor").notNull(),
     contingencyPercent: integer("contingency_percent").notNull(),
     reportPrepHours: integer("report_prep_hours").notNull(),
+    /** Hands-on hours per test plan beyond printing: measuring, photographing, writing up. */
+    planLabourHours: real("plan_labour_hours").notNull().default(3),
     updatedAt: updatedAt(),
   },
   (t) => [check("lab_settings_single_row", sql`${t.id} = 1`)],
@@ -143,8 +145,20 @@ export const printers = sqliteTable("printer", {
   /** JSON array of material codes, e.g. ["PLA","PETG"]. */
   materials: text("materials", { mode: "json" }).$type<string[]>().notNull(),
   hourlyRateMinor: integer("hourly_rate_minor").notNull(),
+  heatUpMinutes: real("heat_up_minutes").notNull().default(6),
+  /** Swapping the part under test (e.g. a duct) between variants. */
+  changeoverMinutes: real("changeover_minutes").notNull().default(15),
+  /** Clearing the bed, removing and labelling the print. */
+  handlingMinutesPerJob: real("handling_minutes_per_job").notNull().default(4),
   status: text("status", { enum: printerStatuses }).notNull().default("available"),
   createdAt: createdAt(),
+});
+
+/** What the lab pays per kilogram of each material, in the lab's currency. */
+export const filamentPrices = sqliteTable("filament_price", {
+  material: text("material").primaryKey(),
+  pricePerKgMinor: integer("price_per_kg_minor").notNull(),
+  updatedAt: updatedAt(),
 });
 
 /* ---------- Proposals ---------- */
@@ -456,3 +470,4 @@ export type Report = typeof reports.$inferSelect;
 export type OutboxMessage = typeof outbox.$inferSelect;
 export type Upload = typeof uploads.$inferSelect;
 export type LabSettings = typeof labSettings.$inferSelect;
+export type FilamentPrice = typeof filamentPrices.$inferSelect;

@@ -18,7 +18,19 @@ export const LAB = {
   feeFixedMinor: 30,
   contingencyPercent: 10,
   reportPrepHours: 24,
+  planLabourHours: 3,
 } as const;
+
+/** What the lab pays per kilogram, in cents (invented, in the range of common retail spools). */
+export const FILAMENT_PRICES: readonly { material: string; pricePerKgMinor: number }[] = [
+  { material: "PLA", pricePerKgMinor: 2200 },
+  { material: "PETG", pricePerKgMinor: 2400 },
+  { material: "ABS", pricePerKgMinor: 2300 },
+  { material: "ASA", pricePerKgMinor: 2900 },
+  { material: "TPU", pricePerKgMinor: 3400 },
+  { material: "PC", pricePerKgMinor: 3900 },
+  { material: "PA", pricePerKgMinor: 4600 },
+];
 
 /* ---------- Printers ---------- */
 
@@ -39,6 +51,9 @@ export interface SeedPrinter {
   enclosed: boolean;
   materials: string[];
   hourlyRateMinor: number;
+  heatUpMinutes: number;
+  changeoverMinutes: number;
+  handlingMinutesPerJob: number;
 }
 
 export const PRINTERS: readonly SeedPrinter[] = [
@@ -57,6 +72,9 @@ export const PRINTERS: readonly SeedPrinter[] = [
     enclosed: false,
     materials: ["PLA", "PETG", "TPU"],
     hourlyRateMinor: 180,
+    heatUpMinutes: 5,
+    changeoverMinutes: 15,
+    handlingMinutesPerJob: 4,
   },
   {
     key: "wren",
@@ -73,6 +91,9 @@ export const PRINTERS: readonly SeedPrinter[] = [
     enclosed: false,
     materials: ["PLA", "PETG", "TPU"],
     hourlyRateMinor: 110,
+    heatUpMinutes: 4,
+    changeoverMinutes: 12,
+    handlingMinutesPerJob: 4,
   },
   {
     key: "heron",
@@ -89,6 +110,9 @@ export const PRINTERS: readonly SeedPrinter[] = [
     enclosed: true,
     materials: ["PLA", "PETG", "ABS", "ASA", "PC", "PA"],
     hourlyRateMinor: 240,
+    heatUpMinutes: 8,
+    changeoverMinutes: 20,
+    handlingMinutesPerJob: 5,
   },
 ];
 

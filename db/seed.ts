@@ -1,12 +1,15 @@
 import { createHash } from "node:crypto";
 import { and, inArray, ne, eq, type InferInsertModel } from "drizzle-orm";
 import type { SQLiteInsertValue, SQLiteTable } from "drizzle-orm/sqlite-core";
+import { estimateTestPlan, type PlanPrinter } from "../lib/estimate/plan";
 import type { Db } from "./client";
+import { labPricing, testPlanInput } from "./queries/pricing";
 import * as s from "./schema";
 import {
   BACKERS,
   CAMPAIGNS,
   DEMO_USERS,
+  FILAMENT_PRICES,
   LAB,
   MEMBERSHIPS,
   PLANS,
@@ -28,6 +31,7 @@ import {
 
 export const seedTables = [
   "lab_settings",
+  "filament_price",
   "printer",
   "membership_plan",
   "user",
@@ -144,25 +148,7 @@ function required<T>(value: T | null | undefined, what: string): T {
   return value;
 }
 
-/* ---------- Rough estimate used for the seeded goals and job hours ---------- */
-
-const DENSITY_G_PER_CM3: Record<string, number> = { PLA: 1.24, PETG: 1.27, ASA: 1.07 };
-const FILAMENT_MINOR_PER_KG: Record<string, number> = { PLA: 2200, PETG: 2400, ASA: 3000 };
-const HEAT_UP_MINUTES = 6;
-const HANDLING_MINUTES = 5;
-/** Hands-on time per job (start, remove, label, photograph). */
-const LABOUR_HOURS_PER_JOB = 0.25;
-const CHANGEOVER_HOURS = 0.25;
-/** Scoring and write-up, hands-on. */
-const REPORT_LABOUR_HOURS = 3;
-const EXPECTED_PLEDGES = 20;
-
-function jobHours(grams: number, material: string, flow: number, printer: SeedPrinter): number {
-  const density = required(DENSITY_G_PER_CM3[material], `density of ${material}`);
-  const volumeMm3 = (grams / density) * 1000;
-  const extrusionHours = volumeMm3 / (Math.min(flow, printer.maxFlowMm3PerS) * printer.efficiency) / 3600;
-  return round(extrusionHours + (HEAT_UP_MINUTES + HANDLING_MINUTES) / 60, 2);
-}
+/* ---------- Goals and job hours from the estimation engine, at the seeded rates ---------- */
 
 interface PlanEstimate {
   hoursPerPiece: number[];
@@ -170,20 +156,34 @@ interface PlanEstimate {
   goalMinor: number;
 }
 
+const seedPricing = labPricing({ id: 1, ...LAB, updatedAt: new Date(0) }, [...FILAMENT_PRICES]);
+
+function seedPrinterProfile(printer: SeedPrinter): PlanPrinter {
+  return {
+    id: printer.key,
+    name: printer.name,
+    maxVolumetricFlowMm3PerS: printer.maxFlowMm3PerS,
+    efficiency: printer.efficiency,
+    heatUpMinutes: printer.heatUpMinutes,
+    changeoverMinutes: printer.changeoverMinutes,
+    handlingMinutesPerJob: printer.handlingMinutesPerJob,
+    hourlyRateMinor: printer.hourlyRateMinor,
+  };
+}
+
+/** The goal is exactly what the campaign page's breakdown computes from the stored plan. */
 function estimatePlan(c: SeedCampaign, printer: SeedPrinter): PlanEstimate {
-  const { plan } = c;
-  const perPiece = plan.pieces.map((p) => jobHours(p.filamentGrams, plan.material, plan.maxFlowMm3PerS, printer));
-  const runs = plan.variants.length * plan.repeats;
-  const jobsCount = plan.pieces.length * runs;
-  const totalHours = perPiece.reduce((a, b) => a + b, 0) * runs;
-  const grams = plan.pieces.reduce((a, p) => a + p.filamentGrams, 0) * runs;
-  const filamentMinor = (grams / 1000) * required(FILAMENT_MINOR_PER_KG[plan.material], `price of ${plan.material}`);
-  const machineMinor = totalHours * printer.hourlyRateMinor;
-  const labourHours = jobsCount * LABOUR_HOURS_PER_JOB + (runs - 1) * CHANGEOVER_HOURS + REPORT_LABOUR_HOURS;
-  const labourMinor = labourHours * LAB.labourRateMinorPerHour;
-  const withContingency = (filamentMinor + machineMinor + labourMinor) * (1 + LAB.contingencyPercent / 100);
-  const gross = (withContingency + EXPECTED_PLEDGES * LAB.feeFixedMinor) / (1 - LAB.feeBasisPoints / 10_000);
-  return { hoursPerPiece: perPiece, totalHours: round(totalHours, 1), goalMinor: Math.ceil(gross / 500) * 500 };
+  const pieces = c.plan.pieces.map((p, i) => ({ id: `piece-${i}`, name: p.name, filamentGrams: p.filamentGrams }));
+  const variants = c.plan.variants.map((name, i) => ({ id: `variant-${i}`, name, isReference: i === 0 }));
+  const estimate = estimateTestPlan(testPlanInput(c.plan, pieces, variants, seedPrinterProfile(printer), seedPricing));
+  const hoursPerPiece = pieces.map((piece) => {
+    const job = required(
+      estimate.jobs.find((j) => j.pieceId === piece.id && j.variantId === "variant-0" && j.repeat === 1),
+      "reference job",
+    );
+    return round(job.time.totalMinutes / 60, 2);
+  });
+  return { hoursPerPiece, totalHours: round(estimate.time.totalMinutes / 60, 1), goalMinor: estimate.cost.totalMinor };
 }
 
 /* ---------- Insert helper ---------- */
@@ -208,6 +208,7 @@ type Rows = {
 
 const tableOf = {
   lab_settings: s.labSettings,
+  filament_price: s.filamentPrices,
   printer: s.printers,
   membership_plan: s.membershipPlans,
   user: s.users,
@@ -244,6 +245,7 @@ function buildRows(now: Date, userId: (key: string) => string): Omit<Rows, "user
 
   const rows: Omit<Rows, "user"> = {
     lab_settings: [{ id: 1, ...LAB, updatedAt: daysAgo(500) }],
+    filament_price: FILAMENT_PRICES.map((price) => ({ ...price, updatedAt: daysAgo(30) })),
     printer: PRINTERS.map((p, i) => ({
       id: seedId("printer", p.key),
       slug: p.slug,
@@ -259,6 +261,9 @@ function buildRows(now: Date, userId: (key: string) => string): Omit<Rows, "user
       enclosed: p.enclosed,
       materials: p.materials,
       hourlyRateMinor: p.hourlyRateMinor,
+      heatUpMinutes: p.heatUpMinutes,
+      changeoverMinutes: p.changeoverMinutes,
+      handlingMinutesPerJob: p.handlingMinutesPerJob,
       status: "available",
       createdAt: daysAgo(520 - i * 60),
     })),
@@ -570,7 +575,7 @@ function buildRows(now: Date, userId: (key: string) => string): Omit<Rows, "user
       // starts while someone is in the lab (see isStaffed).
       const mode = c.jobs.mode;
       const runningIndex = Math.floor(matrix.length / 2);
-      const gapBefore = (j: (typeof matrix)[number]) => (j.changeover ? Math.round(CHANGEOVER_HOURS * HOUR) : 0);
+      const gapBefore = (j: (typeof matrix)[number]) => (j.changeover ? Math.round((printer.changeoverMinutes / 60) * HOUR) : 0);
       const duration = (j: (typeof matrix)[number]) => Math.round(j.hours * HOUR);
       const starts: number[] = [];
       if (mode === "printing") {

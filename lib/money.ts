@@ -93,3 +93,21 @@ export function formatMoney(amountMinor: number, currency: CurrencyCode, locale 
   // A decimal string is formatted exactly, with no binary floating-point step in between.
   return format.format(minorToDecimalString(amountMinor, currency) as `${number}`);
 }
+
+/**
+ * Reads a typed non-negative decimal ("35", "35.5", "1,234.56") as an integer scaled by 10^places,
+ * without floating point; undefined when it is not such a number or has more decimals than places.
+ */
+export function parseScaledDecimal(text: string, places: number): number | undefined {
+  const match = /^(\d+)(?:\.(\d*))?$/.exec(text.trim().replace(/,/g, ""));
+  if (!match) return undefined;
+  const fraction = match[2] ?? "";
+  if (fraction.length > places) return undefined;
+  const scaled = Number(match[1]) * 10 ** places + Number(fraction.padEnd(places, "0") || "0");
+  return Number.isSafeInteger(scaled) ? scaled : undefined;
+}
+
+/** An amount typed in major units, in minor units of the currency (ISO 4217 exponent). */
+export function parseMajorAmount(text: string, currency: CurrencyCode): number | undefined {
+  return parseScaledDecimal(text, minorUnitExponent(currency));
+}

@@ -1,6 +1,7 @@
 import "server-only";
 import { NextResponse } from "next/server";
 import type { z } from "zod";
+import { DomainInputError } from "@/lib/input-checks";
 import type { Role } from "@/lib/roles";
 import type { Viewer } from "./auth";
 import { requireRole } from "./guards";
@@ -23,6 +24,10 @@ export function apiRoute<Params = Record<string, string>>(
       return result instanceof Response ? result : NextResponse.json(result);
     } catch (error) {
       if (error instanceof HttpError) return NextResponse.json(error.toBody(), { status: error.status });
+      if (error instanceof DomainInputError) {
+        const body = new HttpError(422, "invalid_input", error.message, { [error.field]: error.message }).toBody();
+        return NextResponse.json(body, { status: 422 });
+      }
       console.error(error);
       return NextResponse.json({ error: { code: "internal", message: "Something went wrong on our side." } }, { status: 500 });
     }

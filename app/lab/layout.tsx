@@ -1,10 +1,11 @@
 import Link from "next/link";
 import { FlaskConical } from "lucide";
 import { Icon } from "@/components/ui/icon";
+import { hasRole } from "@/lib/roles";
 import { requirePageRole } from "@/server/guards";
 
 export default async function LabLayout({ children }: { children: React.ReactNode }) {
-  await requirePageRole("host", "/lab");
+  const viewer = await requirePageRole("host", "/lab");
   return (
     <div className="flex flex-col gap-6">
       <div className="flex flex-wrap items-center gap-4 border-b border-line pb-3">
@@ -15,6 +16,11 @@ export default async function LabLayout({ children }: { children: React.ReactNod
           <Link href="/lab/proposals" className="rounded-md px-3 py-1.5 hover:bg-teal-soft">
             Proposals
           </Link>
+          {hasRole(viewer.role, "admin") ? (
+            <Link href="/lab/settings" className="rounded-md px-3 py-1.5 hover:bg-teal-soft">
+              Settings
+            </Link>
+          ) : null}
         </nav>
       </div>
       {children}

@@ -85,3 +85,19 @@ describe("formatting", () => {
     expect(formatMoney(900719925474099, "USD")).toBe("$9,007,199,254,740.99");
   });
 });
+
+describe("parseMajorAmount", () => {
+  it("reads typed amounts into ISO 4217 minor units (USD exponent 2, JPY 0, BHD 3)", async () => {
+    const { parseMajorAmount } = await import("@/lib/money");
+    expect(parseMajorAmount("35", "USD")).toBe(3500);
+    expect(parseMajorAmount("35.5", "USD")).toBe(3550);
+    expect(parseMajorAmount("1,234.56", "USD")).toBe(123_456);
+    expect(parseMajorAmount("0.07", "USD")).toBe(7);
+    expect(parseMajorAmount("500", "JPY")).toBe(500);
+    expect(parseMajorAmount("1.5", "JPY")).toBeUndefined();
+    expect(parseMajorAmount("1.234", "BHD")).toBe(1234);
+    expect(parseMajorAmount("-3", "USD")).toBeUndefined();
+    expect(parseMajorAmount("3.999", "USD")).toBeUndefined();
+    expect(parseMajorAmount("abc", "USD")).toBeUndefined();
+  });
+});

@@ -2,11 +2,13 @@ import type { Metadata } from "next";
 import { notFound } from "next/navigation";
 import { AlertTriangle, CalendarClock, Layers, Printer, Repeat, Users } from "lucide";
 import { Icon } from "@/components/ui/icon";
+import { CampaignGoalBreakdown } from "@/components/campaign-goal-breakdown";
 import { CampaignStateBadge } from "@/components/campaign-state-badge";
 import { Card } from "@/components/ui/card";
 import { ProgressBar } from "@/components/ui/progress-bar";
 import { getDb } from "@/db";
 import { getCampaignBySlug, getLabSettings, listPublicPledges } from "@/db/queries/campaigns";
+import { estimateCampaignPlan } from "@/db/queries/pricing";
 import { fundingProgress, timeLeft } from "@/lib/campaign/progress";
 import { formatDate, formatDateTime, formatMoney } from "@/lib/format";
 import { fanNoiseCaution, materialCautions } from "@/lib/safety";
@@ -29,6 +31,7 @@ export default async function CampaignPage({ params }: Props) {
   const now = new Date();
   const jobCount = plan ? pieces.length * variants.length * plan.repeats : 0;
   const cautions = plan ? [...materialCautions(plan.material), fanNoiseCaution] : [];
+  const estimate = estimateCampaignPlan(db, campaign.id);
 
   return (
     <article className="grid gap-8 lg:grid-cols-[minmax(0,1fr)_22rem]">
@@ -82,6 +85,18 @@ export default async function CampaignPage({ params }: Props) {
             <p className="text-muted">The lab has not published a test plan for this campaign yet.</p>
           )}
         </section>
+
+        {estimate && printer ? (
+          <section aria-label="How this goal was computed">
+            <CampaignGoalBreakdown
+              estimate={estimate}
+              goalMinor={campaign.goalMinor}
+              goalOverrideReason={campaign.goalOverrideReason}
+              printerName={printer.name}
+              averageFlowMm3PerS={Math.min(printer.maxFlowMm3PerS, plan?.maxFlowMm3PerS ?? Infinity) * printer.efficiency}
+            />
+          </section>
+        ) : null}
 
         {cautions.length > 0 ? (
           <section aria-labelledby="cautions-heading">
