@@ -13,7 +13,7 @@ const config = [
       "@typescript-eslint/no-unused-vars": ["error", { argsIgnorePattern: "^_", varsIgnorePattern: "^_" }],
     },
   },
-  { ignores: [".next/**", "node_modules/**", "data/**", "test-results/**", "playwright-report/**", "db/migrations/**", "next-env.d.ts"] },
+  { ignores: [".next/**", "dist-worker/**", "node_modules/**", "data/**", "test-results/**", "playwright-report/**", "db/migrations/**", "next-env.d.ts"] },
 ];
 
 export default config;

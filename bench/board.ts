@@ -1,10 +1,9 @@
 /**
- * Budgets for the public board (issue: foundation): server response p50 under 50 ms with the
+ * Budgets for the public board (foundation issue): server response p50 under 50 ms with the
  * seeded data, and first-load JavaScript under 130 kB gzipped.
  */
-import autocannon from "autocannon";
 import { gzipSync } from "node:zlib";
-import { startStack } from "../scripts/stack";
+import { loadTest } from "./load";
 
 export type BoardFigures = {
   p50Ms: number;
@@ -31,27 +30,16 @@ async function firstLoadJavaScript(appUrl: string): Promise<{ bytes: number; cou
   return { bytes, count: unique.length };
 }
 
-function load(url: string, connections: number, seconds: number): Promise<autocannon.Result> {
-  return new Promise((resolve, reject) => {
-    autocannon({ url, connections, duration: seconds }, (error, result) => (error ? reject(error) : resolve(result)));
-  });
-}
-
-export async function runBoardBench(): Promise<BoardFigures> {
-  const stack = await startStack({ port: 3200, databasePath: "data/bench-3200.db", demo: false, fresh: true, quiet: true });
-  try {
-    await load(stack.appUrl, 1, 2); // warm-up: route compilation caches, SQLite page cache
-    const latency = await load(stack.appUrl, 1, 5);
-    const throughput = await load(stack.appUrl, 10, 5);
-    const js = await firstLoadJavaScript(stack.appUrl);
-    return {
-      p50Ms: latency.latency.p50,
-      p99Ms: latency.latency.p99,
-      requestsPerSecond: throughput.requests.average,
-      firstLoadJsGzipBytes: js.bytes,
-      scripts: js.count,
-    };
-  } finally {
-    await stack.stop();
-  }
+export async function runBoardBench(appUrl: string): Promise<BoardFigures> {
+  await loadTest({ url: appUrl, connections: 1, duration: 2 }); // warm-up: route caches, SQLite page cache
+  const latency = await loadTest({ url: appUrl, connections: 1, duration: 5 });
+  const throughput = await loadTest({ url: appUrl, connections: 10, duration: 5 });
+  const js = await firstLoadJavaScript(appUrl);
+  return {
+    p50Ms: latency.latency.p50,
+    p99Ms: latency.latency.p99,
+    requestsPerSecond: throughput.requests.average,
+    firstLoadJsGzipBytes: js.bytes,
+    scripts: js.count,
+  };
 }
