@@ -18,6 +18,9 @@ export function SiteHeader({ viewer }: { viewer: Viewer | null }) {
           <Link href="/" className="rounded-md px-3 py-2 hover:bg-teal-soft">
             Campaigns
           </Link>
+          <Link href="/calculator" className="rounded-md px-3 py-2 hover:bg-teal-soft">
+            Calculator
+          </Link>
           {viewer && hasRole(viewer.role, "host") ? (
             <Link href="/lab" className="inline-flex items-center gap-1.5 rounded-md px-3 py-2 hover:bg-teal-soft">
               <Icon node={FlaskConical} className="h-4 w-4" /> Lab
