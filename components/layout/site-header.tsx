@@ -8,33 +8,33 @@ import { Logo } from "./logo";
 export function SiteHeader({ viewer }: { viewer: Viewer | null }) {
   return (
     <header className="border-b border-line bg-surface">
-      <div className="mx-auto flex max-w-6xl flex-wrap items-center gap-x-6 gap-y-2 px-4 py-3 sm:px-6">
+      <div className="mx-auto flex max-w-6xl items-center gap-x-3 px-3 py-3 sm:gap-x-6 sm:px-6">
         <Link href="/" className="flex items-center gap-2 text-teal-strong">
           <Logo className="h-7 w-7" />
           <span className="text-lg font-bold tracking-tight">Proofbay</span>
           <span className="hidden text-sm font-medium text-muted sm:inline">Harbor Street Print Lab</span>
         </Link>
-        <nav aria-label="Main" className="flex flex-1 flex-wrap items-center justify-end gap-1 text-sm font-medium">
-          <Link href="/" className="rounded-md px-3 py-2 hover:bg-teal-soft">
+        <nav aria-label="Main" className="flex flex-1 items-center justify-end gap-0.5 text-[13px] font-medium sm:gap-1 sm:text-sm">
+          <Link href="/" className="rounded-md px-1.5 py-2 hover:bg-teal-soft sm:px-3">
             Campaigns
           </Link>
-          <Link href="/calculator" className="rounded-md px-3 py-2 hover:bg-teal-soft">
+          <Link href="/calculator" className="rounded-md px-1.5 py-2 hover:bg-teal-soft sm:px-3">
             Calculator
           </Link>
           {viewer && hasRole(viewer.role, "host") ? (
-            <Link href="/lab" className="inline-flex items-center gap-1.5 rounded-md px-3 py-2 hover:bg-teal-soft">
+            <Link href="/lab" className="inline-flex items-center gap-1.5 rounded-md px-1.5 py-2 hover:bg-teal-soft sm:px-3">
               <Icon node={FlaskConical} className="h-4 w-4" /> Lab
             </Link>
           ) : null}
           {viewer ? (
-            <Link href="/account" className="inline-flex items-center gap-1.5 rounded-md px-3 py-2 hover:bg-teal-soft">
+            <Link href="/account" className="inline-flex items-center gap-1.5 rounded-md px-1.5 py-2 hover:bg-teal-soft sm:px-3">
               <Icon node={UserRound} className="h-4 w-4" />
-              <span className="max-w-40 truncate">{viewer.name ?? viewer.email}</span>
+              <span className="max-w-20 truncate sm:max-w-40">{viewer.name ?? viewer.email}</span>
               <span className="sr-only">({roleLabels[viewer.role]})</span>
             </Link>
           ) : (
-            <Link href="/sign-in" className="inline-flex items-center gap-1.5 rounded-md bg-teal px-3 py-2 text-white hover:bg-teal-strong">
-              <Icon node={LogIn} className="h-4 w-4" /> Sign in
+            <Link href="/sign-in" className="inline-flex items-center gap-1.5 rounded-md bg-teal px-2 py-2 text-white sm:px-3 hover:bg-teal-strong">
+              <Icon node={LogIn} className="hidden h-4 w-4 sm:block" /> Sign in
             </Link>
           )}
         </nav>
