@@ -6,7 +6,15 @@
 import autocannon from "autocannon";
 import { loadTest } from "./load";
 
-export type EstimateApiFigures = { requestsPerSecond: number; p50Ms: number; p99Ms: number; non2xx: number; errors: number };
+export type EstimateApiFigures = {
+  requestsPerSecond: number;
+  p50Ms: number;
+  p99Ms: number;
+  non2xx: number;
+  errors: number;
+  /** The same load on the app's emptiest route handler (the JSON 404): what Next itself costs here. */
+  frameworkFloorRequestsPerSecond: number;
+};
 
 const body = JSON.stringify({
   printerSlug: "bay-1-kestrel",
@@ -31,7 +39,9 @@ export async function runEstimateApiBench(appUrl: string): Promise<EstimateApiFi
   };
   await loadTest({ ...options, duration: 3 });
   const result = await loadTest({ ...options, duration: 10 });
+  const floor = await loadTest({ url: `${appUrl}/api/bench-floor`, method: "POST", connections: 50, duration: 5 });
   return {
+    frameworkFloorRequestsPerSecond: floor.requests.average,
     requestsPerSecond: result.requests.average,
     p50Ms: result.latency.p50,
     p99Ms: result.latency.p99,

@@ -40,6 +40,12 @@ try {
       pass: estimate.requestsPerSecond >= 2000 && estimate.non2xx + estimate.errors === 0,
     },
     { name: "POST /api/estimate p99", figure: `${estimate.p99Ms} ms (p50 ${estimate.p50Ms} ms)`, budget: "< 50 ms", pass: estimate.p99Ms < 50 },
+    {
+      name: "empty route handler, same load (framework floor)",
+      figure: `${Math.round(estimate.frameworkFloorRequestsPerSecond)} req/s`,
+      budget: "(reported)",
+      pass: true,
+    },
   );
 } finally {
   await stack.stop();

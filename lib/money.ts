@@ -1,4 +1,5 @@
 import { DomainInputError } from "./input-checks";
+import { numberFormat } from "./intl-cache";
 
 // Minor-unit exponents from the ISO 4217 currency code list ("minor unit" column).
 const MINOR_UNIT_EXPONENTS = {
@@ -84,7 +85,7 @@ export function minorToDecimalString(amountMinor: number, currency: CurrencyCode
 
 export function formatMoney(amountMinor: number, currency: CurrencyCode, locale = "en-US"): string {
   const exponent = minorUnitExponent(currency);
-  const format = new Intl.NumberFormat(locale, {
+  const format = numberFormat(locale, {
     style: "currency",
     currency,
     minimumFractionDigits: exponent,

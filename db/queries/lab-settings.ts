@@ -2,6 +2,7 @@ import { eq } from "drizzle-orm";
 import type { LabSettingsUpdate } from "@/lib/validation/lab-settings";
 import type { Db } from "../client";
 import { filamentPrices, labSettings, printers } from "../schema";
+import { forgetCachedLabRates } from "./pricing";
 
 /** Saves every rate at once, so an estimate never mixes old and new settings. */
 export function updateLabSettings(db: Db, update: LabSettingsUpdate): void {
@@ -29,6 +30,7 @@ export function updateLabSettings(db: Db, update: LabSettingsUpdate): void {
       tx.update(printers).set(rates).where(eq(printers.id, id)).run();
     }
   });
+  forgetCachedLabRates(db);
 }
 
 export function listFilamentPrices(db: Db) {

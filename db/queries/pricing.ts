@@ -96,3 +96,25 @@ export function estimateCampaignPlan(db: Db, campaignId: string): TestPlanEstima
     .all();
   return estimateTestPlan(testPlanInput(plan, pieces, variants, printerProfile(printer), loadPricing(db)));
 }
+
+export type LabRates = { pricing: PlanPricing; printers: Printer[] };
+
+/** Another process (a seed, a second app instance) may change rates; this bounds how stale they get. */
+const RATES_TTL_MS = 5_000;
+const ratesCache = new WeakMap<Db, { rates: LabRates; loadedAt: number }>();
+
+/**
+ * Rates and printers for the estimate API, which is hot: read once every few seconds instead of
+ * on each request. Saving settings in this process forgets the cache at once.
+ */
+export function cachedLabRates(db: Db, now = Date.now()): LabRates {
+  const cached = ratesCache.get(db);
+  if (cached && now - cached.loadedAt < RATES_TTL_MS) return cached.rates;
+  const rates = { pricing: loadPricing(db), printers: listPrinters(db) };
+  ratesCache.set(db, { rates, loadedAt: now });
+  return rates;
+}
+
+export function forgetCachedLabRates(db: Db): void {
+  ratesCache.delete(db);
+}

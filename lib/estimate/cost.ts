@@ -9,6 +9,7 @@ import {
   type CurrencyCode,
 } from "../money";
 import { DomainInputError, requireNonNegative } from "../input-checks";
+import { numberFormat } from "../intl-cache";
 
 const BASIS_POINTS_PER_WHOLE = 10_000;
 const MILLIGRAMS_PER_GRAM = 1000;
@@ -206,11 +207,11 @@ function sumLines(lines: readonly CostLine[]): number {
 }
 
 function formatDecimal(value: number, fractionDigits: number, locale = "en-US"): string {
-  return new Intl.NumberFormat(locale, { maximumFractionDigits: fractionDigits }).format(value);
+  return numberFormat(locale, { maximumFractionDigits: fractionDigits }).format(value);
 }
 
 function formatBasisPoints(basisPoints: number, locale = "en-US"): string {
-  return new Intl.NumberFormat(locale, { style: "percent", maximumFractionDigits: 2 }).format(
+  return numberFormat(locale, { style: "percent", maximumFractionDigits: 2 }).format(
     basisPoints / BASIS_POINTS_PER_WHOLE,
   );
 }

@@ -1,6 +1,6 @@
 import { afterAll, describe, expect, it } from "vitest";
 import { updateLabSettings } from "@/db/queries/lab-settings";
-import { estimateCampaignPlan, listPrinters, loadPricing } from "@/db/queries/pricing";
+import { cachedLabRates, estimateCampaignPlan, listPrinters, loadPricing } from "@/db/queries/pricing";
 import { seedDemo } from "@/db/seed";
 import { campaigns } from "@/db/schema";
 import { parseLabSettingsForm } from "@/lib/validation/lab-settings";
@@ -22,6 +22,7 @@ describe("lab settings", () => {
     const [campaign] = temp.db.select().from(campaigns).all();
     if (!campaign) throw new Error("no campaign");
     const before = estimateCampaignPlan(temp.db, campaign.id);
+    const cachedBefore = cachedLabRates(temp.db);
     const printers = listPrinters(temp.db);
     const data = new FormData();
     const pricing = loadPricing(temp.db);
@@ -49,6 +50,9 @@ describe("lab settings", () => {
     updateLabSettings(temp.db, parsed.data!);
 
     const after = estimateCampaignPlan(temp.db, campaign.id);
+    // The estimate API's cached rates are dropped on save, not served stale for their TTL.
+    expect(cachedBefore.pricing.labourRatePerHourMinor).toBe(3500);
+    expect(cachedLabRates(temp.db).pricing.labourRatePerHourMinor).toBe(7000);
     const labour = (estimate: typeof before) => estimate?.cost.lines.find((line) => line.kind === "labour")?.amountMinor ?? 0;
     // Doubling the labour rate (35 → 70 per hour) doubles the labour line, give or take a cent of rounding.
     expect(Math.abs(labour(after) - 2 * labour(before))).toBeLessThanOrEqual(1);

@@ -1,5 +1,5 @@
 import { getDb } from "@/db";
-import { listPrinters, loadPricing, printerProfile } from "@/db/queries/pricing";
+import { cachedLabRates, printerProfile } from "@/db/queries/pricing";
 import { calculatorSummary, estimateForCalculator } from "@/lib/estimate/calculator";
 import { estimateRequestSchema } from "@/lib/validation/estimate";
 import { apiRoute, parseJsonBody } from "@/server/api-route";
@@ -8,8 +8,7 @@ import { HttpError } from "@/server/http-error";
 /** Public: prices a test plan from filament amounts and a protocol on one of the lab's printers. */
 export const POST = apiRoute({ role: "visitor" }, async ({ request }) => {
   const input = await parseJsonBody(request, estimateRequestSchema);
-  const db = getDb();
-  const printers = listPrinters(db);
+  const { pricing, printers } = cachedLabRates(getDb());
   const printer = input.printerSlug
     ? printers.find((candidate) => candidate.slug === input.printerSlug)
     : (printers.find((candidate) => candidate.status === "available" && candidate.materials.includes(input.material)) ?? printers[0]);
@@ -21,5 +20,5 @@ export const POST = apiRoute({ role: "visitor" }, async ({ request }) => {
       material: `${printer.name} prints ${printer.materials.join(", ")}.`,
     });
   }
-  return calculatorSummary(estimateForCalculator(input, printerProfile(printer), loadPricing(db)));
+  return calculatorSummary(estimateForCalculator(input, printerProfile(printer), pricing));
 });
