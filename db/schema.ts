@@ -10,6 +10,7 @@ import {
   text,
   uniqueIndex,
 } from "drizzle-orm/sqlite-core";
+import type { FanFlowRating, OpeningShape } from "../lib/estimate/duct";
 
 /*
  * Conventions: ids are text UUIDs; timestamps are integer milliseconds since the epoch (UTC);
@@ -123,6 +124,8 @@ export const labSettings = sqliteTable(
     reportPrepHours: integer("report_prep_hours").notNull(),
     /** Hands-on hours per test plan beyond printing: measuring, photographing, writing up. */
     planLabourHours: real("plan_labour_hours").notNull().default(3),
+    /** When set, a host must write a safety note before accepting a proposal that needs one. */
+    requireSafetyNote: integer("require_safety_note", { mode: "boolean" }).notNull().default(true),
     updatedAt: updatedAt(),
   },
   (t) => [check("lab_settings_single_row", sql`${t.id} = 1`)],
@@ -173,7 +176,18 @@ export const proposals = sqliteTable(
     printerType: text("printer_type", { enum: motionTypes }).notNull(),
     why: text("why").notNull(),
     descriptionMd: text("description_md").notNull().default(""),
+    /** The material a material proposal heats; drives the safety cautions. */
+    material: text("material"),
+    /** Duct proposals: the duct helper's inputs (inlet, outlets, fan). */
+    ductDetails: text("duct_details", { mode: "json" }).$type<DuctDetails>(),
+    /** Written by the lab before accepting a proposal whose material needs cautions. */
+    safetyNote: text("safety_note"),
     state: text("state", { enum: proposalStates }).notNull().default("draft"),
+    /** Votes cast on it, recomputed from proposal_vote in the same transaction as every vote change. */
+    voteCount: integer("vote_count").notNull().default(0),
+    /** Set when a host starts reviewing it; from then on the proposer can no longer edit it. */
+    reviewStartedAt: integer("review_started_at", { mode: "timestamp_ms" }),
+    decidedAt: integer("decided_at", { mode: "timestamp_ms" }),
     proposerId: text("proposer_id")
       .notNull()
       .references(() => users.id),
@@ -185,8 +199,23 @@ export const proposals = sqliteTable(
   },
   (t) => [
     index("proposal_state_idx").on(t.state, t.createdAt),
+    index("proposal_votes_idx").on(t.state, t.voteCount),
     index("proposal_proposer_idx").on(t.proposerId),
   ],
+);
+
+export const proposalFollowers = sqliteTable(
+  "proposal_follower",
+  {
+    proposalId: text("proposal_id")
+      .notNull()
+      .references(() => proposals.id, { onDelete: "cascade" }),
+    userId: text("user_id")
+      .notNull()
+      .references(() => users.id, { onDelete: "cascade" }),
+    createdAt: createdAt(),
+  },
+  (t) => [primaryKey({ columns: [t.proposalId, t.userId] })],
 );
 
 export const proposalVotes = sqliteTable(
@@ -200,10 +229,24 @@ export const proposalVotes = sqliteTable(
       .references(() => users.id, { onDelete: "cascade" }),
     createdAt: createdAt(),
   },
-  (t) => [primaryKey({ columns: [t.proposalId, t.userId] })],
+  (t) => [primaryKey({ columns: [t.proposalId, t.userId] }), index("proposal_vote_user_idx").on(t.userId, t.createdAt)],
 );
 
 /* ---------- Campaigns and test plans ---------- */
+
+/** The lab's library of test pieces, managed by admins; plans pick from it. */
+export const testPieces = sqliteTable("test_piece", {
+  id: id(),
+  slug: text("slug").notNull().unique(),
+  name: text("name").notNull(),
+  description: text("description").notNull().default(""),
+  /** Filament for one print at reference scale in PLA (volume follows from the density). */
+  filamentGrams: real("filament_grams").notNull(),
+  meshUploadId: text("mesh_upload_id").references(() => uploads.id, { onDelete: "set null" }),
+  active: integer("active", { mode: "boolean" }).notNull().default(true),
+  position: integer("position").notNull().default(0),
+  createdAt: createdAt(),
+});
 
 export const campaigns = sqliteTable(
   "campaign",
@@ -252,6 +295,7 @@ export const testPlanPieces = sqliteTable("test_plan_piece", {
     .references(() => testPlans.id, { onDelete: "cascade" }),
   name: text("name").notNull(),
   filamentGrams: real("filament_grams").notNull(),
+  libraryPieceId: text("library_piece_id").references(() => testPieces.id, { onDelete: "set null" }),
   position: integer("position").notNull(),
 });
 
@@ -440,10 +484,24 @@ export const uploads = sqliteTable(
       .notNull()
       .references(() => users.id),
     proposalId: text("proposal_id").references(() => proposals.id, { onDelete: "set null" }),
+    /** Photos: SHA-256 of the stored thumbnail (WebP), and the cleaned image's size. */
+    thumbnailSha256: text("thumbnail_sha256"),
+    widthPx: integer("width_px"),
+    heightPx: integer("height_px"),
+    /** Models: the estimation engine's measurement of the mesh. */
+    analysis: text("analysis", { mode: "json" }).$type<Record<string, unknown>>(),
     createdAt: createdAt(),
   },
   (t) => [index("upload_proposal_idx").on(t.proposalId), uniqueIndex("upload_owner_hash_idx").on(t.ownerId, t.sha256)],
 );
+
+/** What a duct proposal records of the duct helper's inputs. */
+export type DuctDetails = {
+  inlet: OpeningShape;
+  outlets: OpeningShape[];
+  /** Free text such as "50 mm radial blower"; the rating is the fan's free-air flow. */
+  fan: { description: string; rating: FanFlowRating };
+};
 
 export type User = typeof users.$inferSelect;
 export type NewUser = typeof users.$inferInsert;
@@ -469,5 +527,7 @@ export type LedgerEntry = typeof ledgerEntries.$inferSelect;
 export type Report = typeof reports.$inferSelect;
 export type OutboxMessage = typeof outbox.$inferSelect;
 export type Upload = typeof uploads.$inferSelect;
+export type TestPiece = typeof testPieces.$inferSelect;
+export type ProposalFollower = typeof proposalFollowers.$inferSelect;
 export type LabSettings = typeof labSettings.$inferSelect;
 export type FilamentPrice = typeof filamentPrices.$inferSelect;

@@ -19,6 +19,7 @@ export const LAB = {
   contingencyPercent: 10,
   reportPrepHours: 24,
   planLabourHours: 3,
+  requireSafetyNote: true,
 } as const;
 
 /** What the lab pays per kilogram, in cents (invented, in the range of common retail spools). */
@@ -30,6 +31,21 @@ export const FILAMENT_PRICES: readonly { material: string; pricePerKgMinor: numb
   { material: "TPU", pricePerKgMinor: 3400 },
   { material: "PC", pricePerKgMinor: 3900 },
   { material: "PA", pricePerKgMinor: 4600 },
+];
+
+/** The lab's piece library (invented pieces of our own naming); grams are PLA at reference scale. */
+export const TEST_PIECES: readonly { slug: string; name: string; description: string; filamentGrams: number }[] = [
+  {
+    slug: "overhang-ladder",
+    name: "Overhang ladder (5°/10°/15°)",
+    description: "Steps overhanging at 5°, 10° and 15° from horizontal on all four sides, so every fan direction is tested.",
+    filamentGrams: 18,
+  },
+  { slug: "bridge-span-set", name: "Bridge span set", description: "Bridges of 10 to 60 mm between pillars; sag is measured at mid-span.", filamentGrams: 14 },
+  { slug: "hollow-spiral", name: "Hollow spiral", description: "A thin-walled spiral that shows cooling on curved overhangs.", filamentGrams: 11 },
+  { slug: "thin-tower-pair", name: "Thin tower pair", description: "Two 5 mm towers 40 mm apart: small-layer cooling and stringing.", filamentGrams: 8 },
+  { slug: "cooling-block", name: "Cooling block (20 mm)", description: "A solid block whose top corners curl when cooling is short.", filamentGrams: 9 },
+  { slug: "dimension-gauge", name: "Dimension gauge", description: "Holes, pegs and slots of known size for dimensional accuracy.", filamentGrams: 12 },
 ];
 
 /* ---------- Printers ---------- */
@@ -252,6 +268,9 @@ export interface SeedProposal {
   submittedAfterDays?: number;
   mergedIntoKey?: string;
   declineReason?: string;
+  /** Material proposals: the material heated (drives the safety cautions). */
+  material?: "PLA" | "PETG" | "ASA" | "PA";
+  safetyNote?: string;
 }
 
 export const PROPOSALS: readonly SeedProposal[] = [
@@ -328,6 +347,7 @@ volumetric flow**, and where does it start to under-extrude?
   },
   {
     key: "matte-pla",
+    material: "PLA",
     slug: "matte-pla-plus-stiffness-and-overhangs",
     title: "Matte PLA+ stiffness and overhangs",
     kind: "material",
@@ -369,6 +389,8 @@ Cooling on the right side of the part will likely be weaker.`,
   },
   {
     key: "asa-warp",
+    material: "ASA",
+    safetyNote: "ASA releases styrene fumes: printed only in the enclosed Heron with its filter running, room ventilated, nobody at the printer while it runs.",
     slug: "asa-corner-lift-in-an-enclosed-printer",
     title: "ASA corner lift in an enclosed printer",
     kind: "material",
@@ -392,6 +414,7 @@ enclosed and vented, and don't stand over the open door.`,
   },
   {
     key: "petg-bridging",
+    material: "PETG",
     slug: "petg-bridging-with-100-percent-fan",
     title: "PETG bridging with 100 % fan",
     kind: "material",
@@ -500,6 +523,7 @@ Peel force on a printed tab set, in PLA and PETG, at two bed temperatures.`,
   },
   {
     key: "cf-nylon",
+    material: "PA",
     slug: "carbon-filled-nylon-on-an-open-frame-printer",
     title: "Carbon-filled nylon on an open-frame printer",
     kind: "material",
@@ -519,6 +543,7 @@ Print carbon-filled PA on the Kestrel with a hardened nozzle, compare to the Her
   },
   {
     key: "silk-adhesion",
+    material: "PLA",
     slug: "silk-pla-layer-adhesion-at-speed",
     title: "Silk PLA layer adhesion at speed",
     kind: "material",

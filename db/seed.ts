@@ -1,5 +1,5 @@
 import { createHash } from "node:crypto";
-import { and, inArray, ne, eq, type InferInsertModel } from "drizzle-orm";
+import { and, inArray, ne, eq, sql, type InferInsertModel } from "drizzle-orm";
 import type { SQLiteInsertValue, SQLiteTable } from "drizzle-orm/sqlite-core";
 import { estimateTestPlan, type PlanPrinter } from "../lib/estimate/plan";
 import type { Db } from "./client";
@@ -10,6 +10,7 @@ import {
   CAMPAIGNS,
   DEMO_USERS,
   FILAMENT_PRICES,
+  TEST_PIECES,
   LAB,
   MEMBERSHIPS,
   PLANS,
@@ -38,6 +39,8 @@ export const seedTables = [
   "membership",
   "proposal",
   "proposal_vote",
+  "proposal_follower",
+  "test_piece",
   "campaign",
   "test_plan",
   "test_plan_piece",
@@ -156,7 +159,7 @@ interface PlanEstimate {
   goalMinor: number;
 }
 
-const seedPricing = labPricing({ id: 1, ...LAB, updatedAt: new Date(0) }, [...FILAMENT_PRICES]);
+const seedPricing = labPricing(LAB, [...FILAMENT_PRICES]);
 
 function seedPrinterProfile(printer: SeedPrinter): PlanPrinter {
   return {
@@ -188,6 +191,11 @@ function estimatePlan(c: SeedCampaign, printer: SeedPrinter): PlanEstimate {
 
 /* ---------- Insert helper ---------- */
 
+/** vote_count is derived from proposal_vote; recomputing it keeps reseeding idempotent. */
+function recountVotes(tx: Tx): void {
+  tx.run(sql.raw("update proposal set vote_count = (select count(*) from proposal_vote where proposal_vote.proposal_id = proposal.id)"));
+}
+
 type Tx = Parameters<Parameters<Db["transaction"]>[0]>[0];
 
 function insertRows<T extends SQLiteTable>(tx: Tx, table: T, rows: readonly InferInsertModel<T>[]): number {
@@ -215,6 +223,8 @@ const tableOf = {
   membership: s.memberships,
   proposal: s.proposals,
   proposal_vote: s.proposalVotes,
+  proposal_follower: s.proposalFollowers,
+  test_piece: s.testPieces,
   campaign: s.campaigns,
   test_plan: s.testPlans,
   test_plan_piece: s.testPlanPieces,
@@ -280,6 +290,8 @@ function buildRows(now: Date, userId: (key: string) => string): Omit<Rows, "user
     membership: [],
     proposal: [],
     proposal_vote: [],
+    proposal_follower: [],
+    test_piece: TEST_PIECES.map((piece, i) => ({ id: seedId("test_piece", piece.slug), ...piece, position: i + 1, createdAt: daysAgo(400) })),
     campaign: [],
     test_plan: [],
     test_plan_piece: [],
@@ -352,10 +364,15 @@ function buildRows(now: Date, userId: (key: string) => string): Omit<Rows, "user
       proposerId: userId(p.proposerKey),
       mergedIntoId: p.mergedIntoKey ? seedId("proposal", p.mergedIntoKey) : null,
       declineReason: p.declineReason ?? null,
+      material: p.material ?? null,
+      safetyNote: p.safetyNote ?? null,
+      reviewStartedAt: p.state === "draft" || p.state === "submitted" ? null : new Date(updatedAt - DAY),
+      decidedAt: p.state === "accepted" || p.state === "declined" || p.state === "merged" ? new Date(updatedAt) : null,
       submittedAt: submittedAt === null ? null : new Date(submittedAt),
       createdAt: new Date(createdAt),
       updatedAt: new Date(updatedAt),
     });
+    rows.proposal_follower.push({ proposalId: seedId("proposal", p.key), userId: userId(p.proposerKey), createdAt: new Date(createdAt) });
     if (p.state === "submitted" || p.state === "accepted") {
       proposalTimes.set(p.key, { submittedAt, votesUntil: p.state === "accepted" ? updatedAt : t - 10 * MINUTE });
     }
@@ -745,6 +762,7 @@ export function seedDemo(db: Db, options: { now?: Date } = {}): SeedSummary {
       counts[table] = list.length;
       inserted[table] = insertRows(tx, tableOf[table] as SQLiteTable, list as InferInsertModel<SQLiteTable>[]);
     }
+    recountVotes(tx);
     return { counts, inserted };
   });
 }

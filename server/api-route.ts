@@ -2,6 +2,7 @@ import "server-only";
 import { NextResponse } from "next/server";
 import type { z } from "zod";
 import { DomainInputError } from "@/lib/input-checks";
+import { RuleViolation } from "@/lib/rule-violation";
 import type { Role } from "@/lib/roles";
 import type { Viewer } from "./auth";
 import { requireRole } from "./guards";
@@ -24,6 +25,10 @@ export function apiRoute<Params = Record<string, string>>(
       return result instanceof Response ? result : NextResponse.json(result);
     } catch (error) {
       if (error instanceof HttpError) return NextResponse.json(error.toBody(), { status: error.status });
+      if (error instanceof RuleViolation) {
+        const fields = error.field ? { [error.field]: error.message } : undefined;
+        return NextResponse.json(new HttpError(error.status, error.code, error.message, fields).toBody(), { status: error.status });
+      }
       if (error instanceof DomainInputError) {
         const body = new HttpError(422, "invalid_input", error.message, { [error.field]: error.message }).toBody();
         return NextResponse.json(body, { status: 422 });

@@ -31,7 +31,9 @@ export function printerProfile(printer: Printer): PlanPrinter {
 }
 
 /** The lab's rates in the shape the estimation engine takes. */
-export function labPricing(settings: LabSettings, prices: { material: string; pricePerKgMinor: number }[]): PlanPricing {
+export function labPricing(
+  settings: Pick<LabSettings, "currency" | "labourRateMinorPerHour" | "planLabourHours" | "contingencyPercent" | "feeBasisPoints" | "feeFixedMinor">,
+  prices: { material: string; pricePerKgMinor: number }[]): PlanPricing {
   if (!isCurrencyCode(settings.currency)) throw new Error(`Lab currency ${settings.currency} is not supported`);
   const filamentPricePerKgMinor: Partial<Record<MaterialId, number>> = {};
   for (const price of prices) if (isMaterialId(price.material)) filamentPricePerKgMinor[price.material] = price.pricePerKgMinor;
