@@ -10,6 +10,8 @@ const schema = z
     PORT: z.coerce.number().int().min(1).max(65535).default(3000),
     APP_URL: z.url().optional(),
     DATABASE_PATH: z.string().min(1).default("data/proofbay.db"),
+    /** Content-addressed store of uploaded photos and models; outside public/, served only through /api/uploads. */
+    UPLOADS_DIR: z.string().min(1).default("data/uploads"),
     AUTH_SECRET: z.string().min(16).optional(),
     PROOFBAY_DEMO: z.enum(["0", "1"]).default("0"),
     SMTP_HOST: z.string().min(1).default("127.0.0.1"),
@@ -27,6 +29,7 @@ const schema = z
       port,
       appUrl: (raw.APP_URL ?? `http://localhost:${port}`).replace(/\/$/, ""),
       databasePath: raw.DATABASE_PATH,
+      uploadsDir: raw.UPLOADS_DIR,
       authSecret: raw.AUTH_SECRET,
       demoMode: raw.PROOFBAY_DEMO === "1",
       smtp: {

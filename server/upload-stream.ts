@@ -1,6 +1,6 @@
 import "server-only";
 import busboy from "busboy";
-import { randomUUID } from "node:crypto";
+import { createHash, randomUUID, type Hash } from "node:crypto";
 import { createWriteStream } from "node:fs";
 import { rm } from "node:fs/promises";
 import { tmpdir } from "node:os";
@@ -17,6 +17,8 @@ export interface UploadOptions {
   readonly tooLargeMessage: string;
   /** Directory for the temporary file; os.tmpdir() by default. */
   readonly directory?: string;
+  /** Compute the file's SHA-256 while it streams (`ReceivedFile.sha256`). */
+  readonly sha256?: boolean;
 }
 
 export interface ReceivedFile {
@@ -26,6 +28,8 @@ export interface ReceivedFile {
   readonly filename: string;
   readonly mimeType: string;
   readonly bytes: number;
+  /** Hex SHA-256 of the bytes written, when `UploadOptions.sha256` asked for it. */
+  readonly sha256?: string;
 }
 
 export interface ReceivedUpload {
@@ -61,6 +65,8 @@ export async function receiveUpload(request: Request, options: UploadOptions): P
   try {
     parser = busboy({
       headers: { "content-type": contentType },
+      // Browsers send the file name as raw UTF-8 in the part header (WHATWG HTML's form encoding).
+      defParamCharset: "utf8",
       limits: { fileSize: options.limitBytes, files: 4, fields: MAX_FIELDS, fieldSize: MAX_FIELD_BYTES, parts: MAX_FIELDS + 1 },
     });
   } catch {
@@ -101,9 +107,11 @@ export async function receiveUpload(request: Request, options: UploadOptions): P
     stream.on("limit", () => {
       refusal ??= tooLarge;
     });
-    fileWritten = pipeline(stream, out).then(
+    const hash = options.sha256 ? createHash("sha256") : undefined;
+    const written = hash ? pipeline(stream, new Digesting(hash), out) : pipeline(stream, out);
+    fileWritten = written.then(
       () => {
-        file = { ...received, bytes: out.bytesWritten };
+        file = { ...received, bytes: out.bytesWritten, ...(hash ? { sha256: hash.digest("hex") } : {}) };
       },
       (error: Error) => {
         // The write stream failing is our disk; the part stream failing is a body cut off.
@@ -144,6 +152,18 @@ function malformed(): HttpError {
 
 function tooManyFields(): HttpError {
   return new HttpError(422, "invalid_input", "The form has too many fields.", { _: "The form has too many fields." });
+}
+
+/** Passes bytes through unchanged, feeding each chunk to a hash on the way. */
+class Digesting extends Transform {
+  constructor(private readonly hash: Hash) {
+    super();
+  }
+
+  override _transform(chunk: Buffer, _encoding: BufferEncoding, callback: TransformCallback): void {
+    this.hash.update(chunk);
+    callback(null, chunk);
+  }
 }
 
 /** Passes bytes through until more than `limit` have gone by, then fails the pipeline. */
