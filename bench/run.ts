@@ -8,6 +8,7 @@ import { startStack } from "../scripts/stack";
 import { runBoardBench } from "./board";
 import { runEstimateApiBench } from "./estimate-api";
 import { runMeshBench } from "./estimate-mesh";
+import { runTriageBench } from "./triage";
 import { runModelUploadBench } from "./model-upload";
 
 type Check = { name: string; figure: string; budget: string; pass: boolean };
@@ -60,6 +61,24 @@ try {
     budget: `analysed without blocking other requests (200, health max < ${healthLimitMs.toFixed(0)} ms = max(3× idle max, 50 ms))`,
     pass: upload.status === 200 && upload.healthDuringUpload.count > 0 && upload.healthDuringUpload.maxMs < healthLimitMs,
   });
+
+  // Last on the stack: it adds 10,000 generated proposals to the bench database.
+  const triage = await runTriageBench(stack.appUrl, "data/bench-3200.db");
+  results.triage = triage;
+  checks.push(
+    {
+      name: `triage query p50 (${triage.proposals} proposals, filtered + searched + sorted)`,
+      figure: `${triage.filteredSortedSearched.p50Ms} ms (p99 ${triage.filteredSortedSearched.p99Ms} ms)`,
+      budget: "< 50 ms",
+      pass: triage.filteredSortedSearched.p50Ms < 50,
+    },
+    {
+      name: "GET /api/lab/proposals p50 (host, same query)",
+      figure: triage.http ? `${triage.http.p50Ms} ms (p99 ${triage.http.p99Ms} ms)` : "not run",
+      budget: "< 50 ms",
+      pass: triage.http !== undefined && triage.http.p50Ms < 50,
+    },
+  );
 } finally {
   await stack.stop();
 }

@@ -1,5 +1,6 @@
 import Link from "next/link";
 import { FlaskConical } from "lucide";
+import { LabQueryProvider } from "@/components/lab/query-provider";
 import { Icon } from "@/components/ui/icon";
 import { hasRole } from "@/lib/roles";
 import { requirePageRole } from "@/server/guards";
@@ -16,6 +17,9 @@ export default async function LabLayout({ children }: { children: React.ReactNod
           <Link href="/lab/proposals" className="rounded-md px-3 py-1.5 hover:bg-teal-soft">
             Proposals
           </Link>
+          <Link href="/lab/pieces" className="rounded-md px-3 py-1.5 hover:bg-teal-soft">
+            Piece library
+          </Link>
           {hasRole(viewer.role, "admin") ? (
             <Link href="/lab/settings" className="rounded-md px-3 py-1.5 hover:bg-teal-soft">
               Settings
@@ -23,7 +27,7 @@ export default async function LabLayout({ children }: { children: React.ReactNod
           ) : null}
         </nav>
       </div>
-      {children}
+      <LabQueryProvider>{children}</LabQueryProvider>
     </div>
   );
 }

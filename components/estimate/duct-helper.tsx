@@ -7,36 +7,16 @@ import { Card } from "@/components/ui/card";
 import { Icon } from "@/components/ui/icon";
 import { ductAirflow, openingAreaMm2, type DuctAirflow, type FanFlowRating, type OpeningShape } from "@/lib/estimate/duct";
 import { Field, inputClass, numberInputClass } from "./field";
-import { formatNumber, formatSignificant } from "./numbers";
+import { DuctAirflowCaveat, DuctAirflowFigures, dimensionsOf, shapeLabels, type Dimension, type ShapeKind } from "./duct-figures";
+import { formatNumber } from "./numbers";
 import { Quantity } from "./quantity";
 
-type ShapeKind = OpeningShape["kind"];
 type FanUnit = FanFlowRating["unit"];
-type Dimension = "widthMm" | "heightMm" | "diameterMm";
 type OpeningDraft = { id: number; kind: ShapeKind; widthMm: string; heightMm: string; diameterMm: string };
 type DimensionErrors = Partial<Record<Dimension, string>>;
 
 const MAX_OUTLETS = 8;
 const MAX_SIZE_MM = 1000;
-const SECONDS_PER_HOUR = 3600;
-
-const shapeLabels: Record<ShapeKind, string> = {
-  rectangle: "Rectangle (width × height)",
-  circle: "Circle (diameter)",
-  slot: "Slot (length × thickness, round ends)",
-};
-
-const dimensionsOf: Record<ShapeKind, { key: Dimension; label: string }[]> = {
-  rectangle: [
-    { key: "widthMm", label: "Width (mm)" },
-    { key: "heightMm", label: "Height (mm)" },
-  ],
-  circle: [{ key: "diameterMm", label: "Diameter (mm)" }],
-  slot: [
-    { key: "widthMm", label: "Length (mm)" },
-    { key: "heightMm", label: "Thickness (mm)" },
-  ],
-};
 
 function parseMm(raw: string): number | string {
   if (raw.trim() === "") return "Enter a size in mm.";
@@ -196,37 +176,12 @@ export function DuctHelper() {
         </h3>
         <div aria-live="polite" className="flex flex-col gap-4">
           {airflow ? (
-            <>
-              <dl className="grid grid-cols-2 gap-x-4 gap-y-3 text-sm">
-                <Figure label="Inlet area" value={formatNumber(airflow.inletAreaMm2, 1)} unit="mm²" testId="duct-inlet-area" />
-                <Figure label="Total outlet area" value={formatNumber(airflow.outletAreaMm2, 1)} unit="mm²" testId="duct-outlet-area" />
-                <Figure label="Outlet ÷ inlet area" value={formatSignificant(airflow.outletToInletRatio, 3)} testId="duct-ratio" />
-                <Figure
-                  label="Fan flow"
-                  value={formatSignificant(airflow.flowM3PerS * SECONDS_PER_HOUR, 3)} unit="m³/h"
-                  testId="duct-flow"
-                />
-                <Figure label="Inlet air speed" value={formatNumber(airflow.inletSpeedMPerS, 2, 2)} unit="m/s" testId="duct-inlet-speed" />
-                <Figure label="Outlet air speed" value={formatNumber(airflow.outletSpeedMPerS, 2, 2)} unit="m/s" testId="duct-outlet-speed" />
-              </dl>
-              <p className="rounded-lg bg-teal-soft/60 px-3 py-2 text-sm">
-                Exit speed is{" "}
-                <strong className="text-teal-strong" data-testid="duct-exit-relative">
-                  <Quantity value={formatNumber(airflow.exitSpeedRelativeToInlet, 2, 2)} unit="×" />
-                </strong>{" "}
-                the inlet speed
-                {airflow.exitSpeedRelativeToInlet < 1 ? ": the outlets are larger than the inlet, so the air slows down." : "."}
-              </p>
-            </>
+            <DuctAirflowFigures airflow={airflow} />
           ) : (
             <p className="text-sm text-muted">{computeError ?? "Fix the marked sizes to see the areas and air speeds."}</p>
           )}
         </div>
-        <p className="text-sm text-muted">
-          By continuity (Q = A·v) the same air flow through a smaller total outlet area leaves faster. A fan&apos;s rated
-          flow is measured in free air; against a duct&apos;s back-pressure it delivers less, so read these speeds as upper
-          bounds — their ratio holds whatever the real flow.
-        </p>
+        <DuctAirflowCaveat />
       </Card>
     </div>
   );
@@ -305,16 +260,5 @@ function OpeningEditor({
         ) : null}
       </div>
     </fieldset>
-  );
-}
-
-function Figure({ label, value, unit, testId }: { label: string; value: string; unit?: string; testId: string }) {
-  return (
-    <div className="rounded-lg bg-paper px-3 py-2">
-      <dt className="text-xs font-medium uppercase tracking-wide text-muted">{label}</dt>
-      <dd className="mt-0.5 text-base font-semibold" data-testid={testId}>
-        <Quantity value={value} unit={unit} />
-      </dd>
-    </div>
   );
 }

@@ -11,12 +11,16 @@ export function SiteHeader({ viewer }: { viewer: Viewer | null }) {
       <div className="mx-auto flex max-w-6xl items-center gap-x-3 px-3 py-3 sm:gap-x-6 sm:px-6">
         <Link href="/" className="flex items-center gap-2 text-teal-strong">
           <Logo className="h-7 w-7" />
-          <span className="text-lg font-bold tracking-tight">Proofbay</span>
-          <span className="hidden text-sm font-medium text-muted sm:inline">Harbor Street Print Lab</span>
+          {/* On narrow phones the mark alone stands for the name, so the four links fit. */}
+          <span className="sr-only text-lg font-bold tracking-tight min-[560px]:not-sr-only">Proofbay</span>
+          <span className="hidden text-sm font-medium text-muted lg:inline">Harbor Street Print Lab</span>
         </Link>
         <nav aria-label="Main" className="flex flex-1 items-center justify-end gap-0.5 text-[13px] font-medium sm:gap-1 sm:text-sm">
           <Link href="/" className="rounded-md px-1.5 py-2 hover:bg-teal-soft sm:px-3">
             Campaigns
+          </Link>
+          <Link href="/proposals" className="rounded-md px-1.5 py-2 hover:bg-teal-soft sm:px-3">
+            Proposals
           </Link>
           <Link href="/calculator" className="rounded-md px-1.5 py-2 hover:bg-teal-soft sm:px-3">
             Calculator
@@ -29,7 +33,7 @@ export function SiteHeader({ viewer }: { viewer: Viewer | null }) {
           {viewer ? (
             <Link href="/account" className="inline-flex items-center gap-1.5 rounded-md px-1.5 py-2 hover:bg-teal-soft sm:px-3">
               <Icon node={UserRound} className="h-4 w-4" />
-              <span className="max-w-20 truncate sm:max-w-40">{viewer.name ?? viewer.email}</span>
+              <span className="sr-only truncate md:not-sr-only md:max-w-40">{viewer.name ?? viewer.email}</span>
               <span className="sr-only">({roleLabels[viewer.role]})</span>
             </Link>
           ) : (

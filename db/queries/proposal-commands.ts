@@ -1,4 +1,4 @@
-import { and, eq, gte, inArray, isNull, lt, sql } from "drizzle-orm";
+import { and, eq, gte, inArray, isNull, lt, notInArray, sql } from "drizzle-orm";
 import {
   assertCanEdit,
   assertCanSubmit,
@@ -48,8 +48,11 @@ function slugify(title: string): string {
     .replace(/[^a-z0-9]+/g, "-")
     .replace(/^-+|-+$/g, "")
     .slice(0, 60);
-  return base || "proposal";
+  // "new" and "edit" are routes under /proposals, so a proposal can never take them.
+  return !base || reservedSlugs.has(base) ? `${base || "proposal"}-proposal` : base;
 }
+
+const reservedSlugs = new Set(["new", "edit"]);
 
 function uniqueSlug(tx: Tx, title: string): string {
   const base = slugify(title);
@@ -135,6 +138,27 @@ export function submitProposal(db: Db, userId: string, id: string, input: Propos
   }, immediate);
 }
 
+/**
+ * Takes the caller's own uploads off a proposal they may still edit, except those in `keepIds`:
+ * what the form's remove button means. The files stay in the caller's uploads.
+ */
+export function detachOwnUploads(db: Db, userId: string, id: string, keepIds: readonly string[]): number {
+  return db.transaction((tx) => {
+    assertCanEdit(loadProposal(tx, id), userId);
+    return tx
+      .update(uploads)
+      .set({ proposalId: null })
+      .where(
+        and(
+          eq(uploads.proposalId, id),
+          eq(uploads.ownerId, userId),
+          keepIds.length > 0 ? notInArray(uploads.id, [...keepIds]) : undefined,
+        ),
+      )
+      .run().changes;
+  }, immediate);
+}
+
 /* ---------- Votes ---------- */
 
 export type VoteStatus = { proposalId: string; voteCount: number; votedByMe: boolean; votesLeft: number; allowance: number };
@@ -196,6 +220,12 @@ export function voteStatus(db: Db | Tx, userId: string, proposalId: string, now 
     allowance,
     votesLeft: votesLeft(allowance, votesUsedThisMonth(db, userId, now)),
   };
+}
+
+/** The member's monthly allowance and what is left of it now, for pages that list many proposals. */
+export function voteAllowance(db: Db, userId: string, now = new Date()): Pick<VoteStatus, "allowance" | "votesLeft"> {
+  const allowance = monthlyAllowance(db, userId, now);
+  return { allowance, votesLeft: votesLeft(allowance, votesUsedThisMonth(db, userId, now)) };
 }
 
 export function castVote(db: Db, userId: string, proposalId: string, now = new Date()): VoteStatus {

@@ -1,6 +1,6 @@
-import { desc, eq, sql } from "drizzle-orm";
+import { asc, desc, eq, sql } from "drizzle-orm";
 import type { Db } from "../client";
-import { proposals, proposalVotes, users, type ProposalState } from "../schema";
+import { campaigns, proposals, proposalVotes, uploads, users, type ProposalState } from "../schema";
 
 const voteCount = sql<number>`(select count(*) from ${proposalVotes} where ${proposalVotes.proposalId} = ${proposals.id})`;
 
@@ -29,3 +29,35 @@ export function listProposalsForTriage(db: Db, filter: { state?: ProposalState }
 }
 
 export type TriageRow = ReturnType<typeof listProposalsForTriage>[number];
+
+/** Everything the host's decision page shows about one proposal; undefined when there is none (or a draft). */
+export function getProposalForDecision(db: Db, id: string) {
+  const row = db
+    .select({ proposal: proposals, proposerName: users.name, proposerEmail: users.email })
+    .from(proposals)
+    .innerJoin(users, eq(users.id, proposals.proposerId))
+    .where(eq(proposals.id, id))
+    .get();
+  if (!row || row.proposal.state === "draft") return undefined;
+  const mergedInto = row.proposal.mergedIntoId
+    ? db
+        .select({ id: proposals.id, title: proposals.title, state: proposals.state })
+        .from(proposals)
+        .where(eq(proposals.id, row.proposal.mergedIntoId))
+        .get()
+    : undefined;
+  const attachments = db
+    .select({ id: uploads.id, kind: uploads.kind, originalName: uploads.originalName, sizeBytes: uploads.sizeBytes })
+    .from(uploads)
+    .where(eq(uploads.proposalId, id))
+    .orderBy(asc(uploads.createdAt))
+    .all();
+  const campaign = db
+    .select({ id: campaigns.id, slug: campaigns.slug, title: campaigns.title })
+    .from(campaigns)
+    .where(eq(campaigns.proposalId, id))
+    .get();
+  return { ...row, mergedInto, attachments, campaign };
+}
+
+export type ProposalForDecision = NonNullable<ReturnType<typeof getProposalForDecision>>;

@@ -1,5 +1,6 @@
 import type { Metadata } from "next";
-import { LogOut } from "lucide";
+import Link from "next/link";
+import { FileText, LogOut } from "lucide";
 import { Icon } from "@/components/ui/icon";
 import { signOutAction } from "@/app/(auth)/sign-in/actions";
 import { Button } from "@/components/ui/button";
@@ -23,6 +24,9 @@ export default async function AccountPage() {
           <dt className="text-muted">Role</dt>
           <dd className="font-medium" data-testid="account-role">{roleLabels[viewer.role]}</dd>
         </dl>
+        <Link href="/account/proposals" className="inline-flex items-center gap-2 text-sm font-medium text-teal underline">
+          <Icon node={FileText} className="h-4 w-4" /> My proposals
+        </Link>
         <form action={signOutAction}>
           <Button type="submit" variant="secondary">
             <Icon node={LogOut} className="h-4 w-4" /> Sign out

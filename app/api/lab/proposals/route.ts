@@ -1,12 +1,17 @@
-import { z } from "zod";
 import { getDb } from "@/db";
-import { listProposalsForTriage } from "@/db/queries/proposals";
-import { proposalStates } from "@/db/schema";
-import { apiRoute, parseSearchParams } from "@/server/api-route";
+import { listTriagePage } from "@/db/queries/triage";
+import { searchParamsToTriageInput, triageQuerySchema } from "@/lib/validation/triage";
+import { apiRoute } from "@/server/api-route";
+import { validationError } from "@/server/http-error";
 
-const querySchema = z.object({ state: z.enum(proposalStates).optional() });
-
+/**
+ * Host: one page of proposals for triage. Query: `state` (repeatable or comma-separated; default
+ * submitted), `kind`, `printerType`, `q` (full text over title, why and description), `sort`
+ * (votes | age), `dir` (asc | desc), `page` (1-based), `pageSize` (≤ 100, default 25).
+ * Answers `{ rows, total, page, pageSize }`; a page past the end answers the last one.
+ */
 export const GET = apiRoute({ role: "host" }, async ({ request }) => {
-  const { state } = parseSearchParams(request, querySchema);
-  return { proposals: listProposalsForTriage(getDb(), { state }) };
+  const parsed = triageQuerySchema.safeParse(searchParamsToTriageInput(new URL(request.url).searchParams));
+  if (!parsed.success) throw validationError(parsed.error);
+  return listTriagePage(getDb(), parsed.data);
 });
