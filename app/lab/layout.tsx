@@ -13,12 +13,15 @@ export default async function LabLayout({ children }: { children: React.ReactNod
         <p className="inline-flex items-center gap-2 text-sm font-semibold uppercase tracking-wide text-ember">
           <Icon node={FlaskConical} className="h-4 w-4" /> Lab
         </p>
-        <nav aria-label="Lab" className="flex gap-1 text-sm font-medium">
+        <nav aria-label="Lab" className="flex flex-wrap gap-1 text-sm font-medium">
           <Link href="/lab/proposals" className="rounded-md px-3 py-1.5 hover:bg-teal-soft">
             Proposals
           </Link>
           <Link href="/lab/pieces" className="rounded-md px-3 py-1.5 hover:bg-teal-soft">
             Piece library
+          </Link>
+          <Link href="/lab/outbox" className="rounded-md px-3 py-1.5 hover:bg-teal-soft">
+            Outbox
           </Link>
           {hasRole(viewer.role, "admin") ? (
             <Link href="/lab/settings" className="rounded-md px-3 py-1.5 hover:bg-teal-soft">

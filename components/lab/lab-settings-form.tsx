@@ -9,6 +9,7 @@ export type SettingsField = { name: string; label: string; value: string; hint?:
 export type PrinterRow = { id: string; name: string; fields: SettingsField[] };
 
 type Props = {
+  requireSafetyNote: boolean;
   general: SettingsField[];
   prices: SettingsField[];
   printers: PrinterRow[];
@@ -16,7 +17,7 @@ type Props = {
   currency: string;
 };
 
-export function LabSettingsForm({ general, prices, printers, currencies, currency }: Props) {
+export function LabSettingsForm({ requireSafetyNote, general, prices, printers, currencies, currency }: Props) {
   const [state, action, pending] = useActionState<SettingsFormState, FormData>(saveLabSettings, {});
   const value = (field: SettingsField) => state.values?.[field.name] ?? field.value;
   const input = (field: SettingsField, compact = false) => {
@@ -61,6 +62,21 @@ export function LabSettingsForm({ general, prices, printers, currencies, currenc
           </select>
         </div>
         {general.map((field) => input(field))}
+        <div className="flex items-start gap-2 sm:col-span-2 lg:col-span-3">
+          <input
+            id="f-requireSafetyNote"
+            name="requireSafetyNote"
+            type="checkbox"
+            defaultChecked={state.values ? state.values.requireSafetyNote === "on" : requireSafetyNote}
+            className="mt-1 h-4 w-4 accent-teal"
+          />
+          <label htmlFor="f-requireSafetyNote" className="text-sm">
+            <span className="font-medium">Require a safety note before accepting</span>
+            <span className="block text-muted">
+              For material tests that heat styrenics (fumes) or print at 240 °C or hotter, a host writes down the precautions first.
+            </span>
+          </label>
+        </div>
       </fieldset>
 
       <fieldset>

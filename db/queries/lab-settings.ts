@@ -17,6 +17,7 @@ export function updateLabSettings(db: Db, update: LabSettingsUpdate): void {
         contingencyPercent: update.contingencyPercent,
         planLabourHours: update.planLabourHours,
         reportPrepHours: update.reportPrepHours,
+        requireSafetyNote: update.requireSafetyNote,
       })
       .where(eq(labSettings.id, 1))
       .run();

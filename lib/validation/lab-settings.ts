@@ -11,6 +11,7 @@ export type LabSettingsUpdate = {
   contingencyPercent: number;
   planLabourHours: number;
   reportPrepHours: number;
+  requireSafetyNote: boolean;
   filamentPrices: { material: MaterialId; pricePerKgMinor: number }[];
   printers: {
     id: string;
@@ -71,6 +72,7 @@ export function parseLabSettingsForm(form: FormData, printerIds: readonly string
     contingencyPercent: number("contingencyPercent", "Contingency", 0, 100),
     planLabourHours: number("planLabourHours", "Hands-on hours per plan", 0, 200),
     reportPrepHours: number("reportPrepHours", "Report preparation", 0, 720),
+    requireSafetyNote: form.get("requireSafetyNote") === "on",
     filamentPrices: MATERIAL_IDS.map((material) => ({
       material,
       pricePerKgMinor: money(`price.${material}`, `${material} price`),

@@ -54,7 +54,7 @@ export default async function LabSettingsPage() {
         vary by place — check them with a licensed adviser.
       </p>
       <Card>
-        <LabSettingsForm general={general} prices={priceFields} printers={printers} currencies={CURRENCY_CODES} currency={currency} />
+        <LabSettingsForm requireSafetyNote={settings.requireSafetyNote} general={general} prices={priceFields} printers={printers} currencies={CURRENCY_CODES} currency={currency} />
       </Card>
     </div>
   );
