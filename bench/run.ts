@@ -15,10 +15,12 @@ type Check = { name: string; figure: string; budget: string; pass: boolean };
 
 const checks: Check[] = [];
 const results: Record<string, unknown> = { machine: { node: process.version, cpus: cpus().length } };
+const progress = (step: string) => console.log(`[bench ${new Date().toISOString().slice(11, 19)}] ${step}`);
 const kib = (bytes: number) => `${(bytes / 1024).toFixed(1)} KiB`;
 
 const stack = await startStack({ port: 3200, databasePath: "data/bench-3200.db", demo: false, fresh: true, quiet: true });
 try {
+  progress("public board: latency, throughput, first-load JavaScript");
   const board = await runBoardBench(stack.appUrl);
   results.board = board;
   checks.push(
@@ -32,6 +34,7 @@ try {
     { name: "board throughput (10 connections)", figure: `${Math.round(board.requestsPerSecond)} req/s`, budget: "(reported)", pass: true },
   );
 
+  progress("POST /api/estimate at 50 connections");
   const estimate = await runEstimateApiBench(stack.appUrl);
   results.estimateApi = estimate;
   checks.push(
@@ -50,6 +53,7 @@ try {
     },
   );
 
+  progress("50 MB model upload while probing /api/health");
   const upload = await runModelUploadBench(stack.appUrl);
   results.modelUpload = upload;
   // The health probe must not stall while the upload streams and the worker analyses; a 50 ms
@@ -63,6 +67,7 @@ try {
   });
 
   // Last on the stack: it adds 10,000 generated proposals to the bench database.
+  progress("triage query over 10,000 proposals");
   const triage = await runTriageBench(stack.appUrl, "data/bench-3200.db");
   results.triage = triage;
   checks.push(
@@ -83,6 +88,7 @@ try {
   await stack.stop();
 }
 
+progress("1,000,000-triangle STL analysis in a fresh process");
 const mesh = await runMeshBench();
 results.mesh = mesh;
 checks.push(
