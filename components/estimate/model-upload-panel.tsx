@@ -8,24 +8,12 @@ import { MATERIAL_IDS } from "@/lib/estimate/materials";
 import { MODEL_UPLOAD_LIMIT_BYTES, MODEL_UPLOAD_LIMIT_MESSAGE, type ModelAnalysis } from "@/lib/validation/model-analysis";
 import { Field, inputClass, numberInputClass } from "./field";
 import { LayerChart } from "./layer-chart";
+import { formatDuration, MeshHealth } from "./mesh-health";
 import { uploadWithProgress, type UploadProgress } from "./upload-with-progress";
 
 type ErrorBody = { error?: { message?: string; fields?: Record<string, string> } };
 
 const number = (value: number, digits: number) => value.toLocaleString("en-US", { maximumFractionDigits: digits });
-const problemLabels: Record<string, string> = {
-  open_edges: "open edges (holes)",
-  non_manifold_edges: "edges shared by more than two faces",
-  flipped_faces: "edges whose faces disagree on which way is out",
-  inverted_normals: "the whole mesh is inside out",
-  degenerate_triangles: "zero-area triangles",
-};
-
-function formatDuration(seconds: number): string {
-  const hours = Math.floor(seconds / 3600);
-  const minutes = Math.round((seconds % 3600) / 60);
-  return hours > 0 ? `${hours} h ${minutes} min` : `${minutes} min`;
-}
 
 /** Measures an uploaded STL or 3MF: volume, area, closedness, slices, filament and print time. */
 export function ModelUploadPanel() {
@@ -146,20 +134,7 @@ function ModelResult({ result }: { result: ModelAnalysis }) {
           </div>
         ))}
       </dl>
-      {result.closed && result.consistentlyOriented && !result.invertedNormals ? (
-        <p className="text-sm text-moss">The mesh is closed and consistently oriented: its volume can be trusted.</p>
-      ) : (
-        <div className="rounded-md bg-ember-soft p-3 text-sm">
-          <p className="font-semibold text-ember">This mesh has problems; its volume and filament may be off.</p>
-          <ul className="mt-1 list-disc pl-5">
-            {result.problems.map((problem) => (
-              <li key={problem.code}>
-                {number(problem.count, 0)} {problem.of}: {problemLabels[problem.code] ?? problem.code}
-              </li>
-            ))}
-          </ul>
-        </div>
-      )}
+      <MeshHealth analysis={result} />
       {result.printTime.layersAtMinimumTime > 0 ? (
         <p className="text-xs text-muted">
           {result.printTime.layersAtMinimumTime} small layers are held to the {result.printTime.minLayerTimeSeconds} s minimum layer time so

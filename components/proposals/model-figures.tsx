@@ -1,24 +1,10 @@
 import type { ModelFiguresInput } from "@/db/queries/proposal-reads";
+import { formatDuration, MeshHealth } from "@/components/estimate/mesh-health";
 import { formatNumber } from "@/components/estimate/numbers";
-
-const problemLabels: Record<string, string> = {
-  open_edges: "open edges (holes)",
-  non_manifold_edges: "edges shared by more than two faces",
-  flipped_faces: "edges whose faces disagree on which way is out",
-  inverted_normals: "the whole mesh is inside out",
-  degenerate_triangles: "zero-area triangles",
-};
-
-export function formatDuration(seconds: number): string {
-  const hours = Math.floor(seconds / 3600);
-  const minutes = Math.round((seconds % 3600) / 60);
-  return hours > 0 ? `${hours} h ${minutes} min` : `${minutes} min`;
-}
 
 /** A model's measured figures: volume, size, whether it is closed (or what is wrong), filament and print time. */
 export function ModelFigures({ analysis, compact = false }: { analysis: ModelFiguresInput; compact?: boolean }) {
   const [x = 0, y = 0, z = 0] = analysis.boundingBox.sizeMm;
-  const sound = analysis.closed && analysis.consistentlyOriented && !analysis.invertedNormals;
   const facts: [string, string][] = [
     ["Volume", `${formatNumber(analysis.volumeMm3 / 1000, 2)} cm³`],
     ["Size", `${formatNumber(x, 1)} × ${formatNumber(y, 1)} × ${formatNumber(z, 1)} mm`],
@@ -40,20 +26,7 @@ export function ModelFigures({ analysis, compact = false }: { analysis: ModelFig
           Filament and time estimated for {analysis.settings.material} at {analysis.settings.layerHeightMm} mm layers.
         </p>
       ) : null}
-      {sound ? (
-        <p className="text-moss">Closed and consistently oriented: its volume can be trusted.</p>
-      ) : (
-        <div className="rounded-md bg-ember-soft p-2">
-          <p className="font-semibold text-ember">This mesh has problems; its volume and filament may be off.</p>
-          <ul className="mt-1 list-disc pl-5">
-            {analysis.problems.map((problem) => (
-              <li key={problem.code}>
-                {formatNumber(problem.count, 0)} {problem.of}: {problemLabels[problem.code] ?? problem.code}
-              </li>
-            ))}
-          </ul>
-        </div>
-      )}
+      <MeshHealth analysis={analysis} />
     </div>
   );
 }
