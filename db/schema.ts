@@ -426,6 +426,17 @@ export const ledgerEntries = sqliteTable(
   (t) => [index("ledger_campaign_idx").on(t.campaignId), index("ledger_occurred_idx").on(t.occurredAt)],
 );
 
+/**
+ * Every payment-processor event the webhook endpoint accepted, by its id: a replayed or duplicated
+ * delivery finds its row and changes nothing.
+ */
+export const processorEvents = sqliteTable("processor_event", {
+  id: text("id").primaryKey(),
+  type: text("type").notNull(),
+  receivedAt: integer("received_at", { mode: "timestamp_ms" }).notNull(),
+  processedAt: integer("processed_at", { mode: "timestamp_ms" }),
+});
+
 /* ---------- Reports ---------- */
 
 export const reports = sqliteTable("report", {
@@ -524,6 +535,7 @@ export type PledgeState = (typeof pledgeStates)[number];
 export type MembershipPlan = typeof membershipPlans.$inferSelect;
 export type Membership = typeof memberships.$inferSelect;
 export type LedgerEntry = typeof ledgerEntries.$inferSelect;
+export type ProcessorEvent = typeof processorEvents.$inferSelect;
 export type Report = typeof reports.$inferSelect;
 export type OutboxMessage = typeof outbox.$inferSelect;
 export type Upload = typeof uploads.$inferSelect;

@@ -21,6 +21,10 @@ const schema = z
     SMTP_PASSWORD: z.string().optional(),
     MAIL_FROM: z.string().min(3).default("Harbor Street Print Lab <lab@proofbay.localhost>"),
     INBOX_PORT: z.coerce.number().int().min(1).max(65535).optional(),
+    STRIPE_SECRET_KEY: z.string().startsWith("sk_").default("sk_test_proofbay_local_fake"),
+    STRIPE_WEBHOOK_SECRET: z.string().startsWith("whsec_").default("whsec_proofbay_local_fake"),
+    /** Where the Stripe SDK sends requests; unset means Stripe itself, the demo points it at the fake. */
+    STRIPE_API_URL: z.url().optional(),
   })
   .transform((raw) => {
     const port = raw.PORT;
@@ -41,6 +45,13 @@ const schema = z
         from: raw.MAIL_FROM,
       },
       inboxPort: raw.INBOX_PORT ?? port + 2,
+      stripe: {
+        secretKey: raw.STRIPE_SECRET_KEY,
+        webhookSecret: raw.STRIPE_WEBHOOK_SECRET,
+        apiUrl: raw.STRIPE_API_URL,
+        /** The local fake's port in the demo and tests. */
+        fakePort: port + 3,
+      },
     };
   });
 

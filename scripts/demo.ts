@@ -12,6 +12,7 @@ console.log(`
   App         ${stack.appUrl}
   Sign in     ${stack.appUrl}/sign-in   (one-click demo accounts, or a magic link)
   Fake inbox  ${stack.inbox.url}   (SMTP on 127.0.0.1:${stack.inbox.smtpPort})
+  Fake Stripe ${stack.stripe.url}   (control API at ${stack.stripe.url}/__control)
 
   Demo accounts: ${demoAccountEmails.join(", ")}
   Press Ctrl+C to stop.

@@ -9,6 +9,7 @@ import path from "node:path";
 import { migrateDatabase, openDatabase } from "../db/client";
 import { seedDemo } from "../db/seed";
 import { startFakeInbox, type FakeInbox } from "../fakes/smtp/inbox";
+import { startFakeStripe, type RunningFakeStripe } from "../fakes/stripe/server";
 import { parseEnv } from "../lib/env";
 
 export type StackOptions = {
@@ -20,7 +21,7 @@ export type StackOptions = {
   quiet?: boolean;
 };
 
-export type RunningStack = { appUrl: string; inbox: FakeInbox; app: ChildProcess; stop(): Promise<void> };
+export type RunningStack = { appUrl: string; inbox: FakeInbox; stripe: RunningFakeStripe; app: ChildProcess; stop(): Promise<void> };
 
 /** A secret kept beside the database so sessions survive a restart of the demo. */
 function loadOrCreateSecret(databasePath: string): string {
@@ -67,6 +68,13 @@ export async function startStack(options: StackOptions): Promise<RunningStack> {
     quiet: options.quiet,
   });
 
+  const stripe = await startFakeStripe({
+    port: env.stripe.fakePort,
+    storePath: options.fresh ? undefined : path.join(path.dirname(path.resolve(options.databasePath)), "stripe.json"),
+    webhook: { url: `${env.appUrl}/api/stripe/webhook`, secret: env.stripe.webhookSecret },
+    quiet: true,
+  });
+
   const app = spawn(path.join("node_modules", ".bin", "next"), ["start", "-p", String(options.port)], {
     stdio: options.quiet ? ["ignore", "ignore", "inherit"] : "inherit",
     env: {
@@ -80,6 +88,9 @@ export async function startStack(options: StackOptions): Promise<RunningStack> {
       SMTP_HOST: "127.0.0.1",
       SMTP_PORT: String(env.smtp.port),
       INBOX_PORT: String(env.inboxPort),
+      STRIPE_API_URL: stripe.url,
+      STRIPE_SECRET_KEY: env.stripe.secretKey,
+      STRIPE_WEBHOOK_SECRET: env.stripe.webhookSecret,
     },
   });
 
@@ -88,14 +99,14 @@ export async function startStack(options: StackOptions): Promise<RunningStack> {
       app.kill("SIGTERM");
       await new Promise((resolve) => app.once("exit", resolve));
     }
-    await inbox.close();
+    await Promise.all([inbox.close(), stripe.close()]);
   };
 
   await waitForHttp(`${env.appUrl}/api/health`, 30_000).catch(async (error) => {
     await stop();
     throw error;
   });
-  return { appUrl: env.appUrl, inbox, app, stop };
+  return { appUrl: env.appUrl, inbox, stripe, app, stop };
 }
 
 export function stopOnSignals(stack: RunningStack): void {
@@ -103,6 +114,6 @@ export function stopOnSignals(stack: RunningStack): void {
   process.once("SIGINT", shutdown);
   process.once("SIGTERM", shutdown);
   stack.app.once("exit", (code) => {
-    void stack.inbox.close().then(() => process.exit(code ?? 1));
+    void Promise.all([stack.inbox.close(), stack.stripe.close()]).then(() => process.exit(code ?? 1));
   });
 }
