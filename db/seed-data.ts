@@ -195,7 +195,7 @@ const BACKER_NAMES: readonly (readonly [string, string])[] = [
   ["Mei", "Fairweather"],
   ["Tariq", "Lindgren"],
   ["Zofia", "Ramírez"],
-  ["Kofi", "Bergström"],
+  ["Kwabena", "Bergström"],
   ["Ingrid", "Oyelaran"],
   ["Anand", "Kowalski"],
   ["Lucía", "Haverkamp"],
