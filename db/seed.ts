@@ -751,7 +751,18 @@ export function seedDemo(db: Db, options: { now?: Date } = {}): SeedSummary {
       .all();
     const idByEmail = new Map(existing.map((row) => [row.email, row.id]));
     const emailByKey = new Map(seedUsers.map((u) => [u.key, u.email]));
-    const userId = (key: string) => required(idByEmail.get(required(emailByKey.get(key), `user ${key}`)), `id of ${key}`);
+    const seededIds = new Set(
+      tx
+        .select({ id: s.users.id })
+        .from(s.users)
+        .where(inArray(s.users.id, seedUsers.map((u) => seedId("user", u.key))))
+        .all()
+        .map((row) => row.id),
+    );
+    // An older seed may have written a user under its fixed id with since-changed details: keep that row.
+    const userId = (key: string) =>
+      idByEmail.get(required(emailByKey.get(key), `user ${key}`)) ??
+      required(seededIds.has(seedId("user", key)) ? seedId("user", key) : undefined, `id of ${key}`);
 
     const rows = buildRows(now, userId);
     const counts = { user: userRows.length } as Record<SeedTable, number>;

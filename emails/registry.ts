@@ -1,4 +1,6 @@
 import { createElement, type ReactElement } from "react";
+import { CampaignFundedEmail, type CampaignFundedProps } from "./pledge-campaign-funded";
+import { PledgeReceiptEmail, type PledgeReceiptProps } from "./pledge-receipt";
 import {
   ProposalAcceptedEmail,
   ProposalDeclinedEmail,
@@ -13,6 +15,8 @@ export type TemplateProps = {
   "proposal-accepted": ProposalAcceptedProps;
   "proposal-declined": ProposalDeclinedProps;
   "proposal-merged": ProposalMergedProps;
+  "pledge-receipt": PledgeReceiptProps;
+  "campaign-funded": CampaignFundedProps;
 };
 export type TemplateName = keyof TemplateProps;
 
@@ -20,6 +24,8 @@ const templates: { [K in TemplateName]: (props: TemplateProps[K]) => ReactElemen
   "proposal-accepted": (props) => createElement(ProposalAcceptedEmail, props),
   "proposal-declined": (props) => createElement(ProposalDeclinedEmail, props),
   "proposal-merged": (props) => createElement(ProposalMergedEmail, props),
+  "pledge-receipt": (props) => createElement(PledgeReceiptEmail, props),
+  "campaign-funded": (props) => createElement(CampaignFundedEmail, props),
 };
 
 export function isTemplateName(name: string): name is TemplateName {

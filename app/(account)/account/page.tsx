@@ -1,6 +1,6 @@
 import type { Metadata } from "next";
 import Link from "next/link";
-import { FileText, LogOut } from "lucide";
+import { FileText, HandCoins, LogOut } from "lucide";
 import { Icon } from "@/components/ui/icon";
 import { signOutAction } from "@/app/(auth)/sign-in/actions";
 import { Button } from "@/components/ui/button";
@@ -26,6 +26,9 @@ export default async function AccountPage() {
         </dl>
         <Link href="/account/proposals" className="inline-flex items-center gap-2 text-sm font-medium text-teal underline">
           <Icon node={FileText} className="h-4 w-4" /> My proposals
+        </Link>
+        <Link href="/account/pledges" className="inline-flex items-center gap-2 text-sm font-medium text-teal underline">
+          <Icon node={HandCoins} className="h-4 w-4" /> My pledges
         </Link>
         <form action={signOutAction}>
           <Button type="submit" variant="secondary">

@@ -1,29 +1,37 @@
 import type { Metadata } from "next";
+import Link from "next/link";
 import { notFound } from "next/navigation";
 import { AlertTriangle, CalendarClock, Layers, Printer, Repeat, Users } from "lucide";
 import { Icon } from "@/components/ui/icon";
 import { CampaignGoalBreakdown } from "@/components/campaign-goal-breakdown";
 import { CampaignStateBadge } from "@/components/campaign-state-badge";
+import { PledgeBox } from "@/components/pledges/pledge-box";
+import { Button } from "@/components/ui/button";
 import { Card } from "@/components/ui/card";
 import { ProgressBar } from "@/components/ui/progress-bar";
 import { getDb } from "@/db";
 import { getCampaignBySlug, getLabSettings, listPublicPledges } from "@/db/queries/campaigns";
+import { findOwnPledgeBySession } from "@/db/queries/pledges";
 import { estimateCampaignPlan } from "@/db/queries/pricing";
 import { fundingProgress, timeLeft } from "@/lib/campaign/progress";
 import { formatDate, formatDateTime, formatMoney } from "@/lib/format";
+import { pledgeBounds } from "@/lib/pledges/amounts";
 import { fanNoiseCaution, materialCautions } from "@/lib/safety";
+import { getViewer } from "@/server/auth";
 
-type Props = { params: Promise<{ slug: string }> };
+type Props = { params: Promise<{ slug: string }>; searchParams: Promise<Record<string, string | string[] | undefined>> };
 
 export async function generateMetadata({ params }: Props): Promise<Metadata> {
   const found = getCampaignBySlug(getDb(), (await params).slug);
   return found ? { title: found.campaign.title, description: found.campaign.summary } : { title: "Campaign not found" };
 }
 
-export default async function CampaignPage({ params }: Props) {
+export default async function CampaignPage({ params, searchParams }: Props) {
   const db = getDb();
   const found = getCampaignBySlug(db, (await params).slug);
   if (!found) notFound();
+  const query = await searchParams;
+  const viewer = await getViewer();
   const { campaign, plan, printer, pieces, variants } = found;
   const settings = getLabSettings(db);
   const pledges = listPublicPledges(db, campaign.id);
@@ -32,6 +40,10 @@ export default async function CampaignPage({ params }: Props) {
   const jobCount = plan ? pieces.length * variants.length * plan.repeats : 0;
   const cautions = plan ? [...materialCautions(plan.material), fanNoiseCaution] : [];
   const estimate = estimateCampaignPlan(db, campaign.id);
+  const takesPledges = campaign.state === "open" && campaign.deadline.getTime() > now.getTime();
+  // Back from the card processor: the page only reports what the webhook has already recorded.
+  const returnedSession = query.pledge === "thanks" && typeof query.session === "string" ? query.session : null;
+  const returnedPledge = returnedSession && viewer ? findOwnPledgeBySession(db, viewer.id, returnedSession) : undefined;
 
   return (
     <article className="grid gap-8 lg:grid-cols-[minmax(0,1fr)_22rem]">
@@ -148,6 +160,13 @@ export default async function CampaignPage({ params }: Props) {
       </div>
 
       <aside className="flex flex-col gap-4 lg:sticky lg:top-6 lg:self-start">
+        {query.pledge === "thanks" ? (
+          <p role="status" data-testid="pledge-thanks" className="rounded-lg border border-teal/30 bg-teal-soft p-3 text-sm">
+            {returnedPledge?.state === "paid" && returnedPledge.campaignId === campaign.id
+              ? `Your pledge of ${formatMoney(returnedPledge.amountMinor, returnedPledge.currency)} is confirmed. Thank you!`
+              : "Thank you — your pledge will appear once the payment is confirmed."}
+          </p>
+        ) : null}
         <Card className="flex flex-col gap-3">
           <p className="text-2xl font-bold">{formatMoney(progress.raisedMinor, campaign.currency)}</p>
           <p className="-mt-2 text-sm text-muted">pledged of {formatMoney(campaign.goalMinor, campaign.currency)} goal</p>
@@ -173,6 +192,21 @@ export default async function CampaignPage({ params }: Props) {
             refunded in full.
           </p>
         </Card>
+        {takesPledges ? (
+          <Card className="flex flex-col gap-3">
+            {viewer ? (
+              <PledgeBox slug={campaign.slug} bounds={pledgeBounds(campaign.currency)} defaultName={viewer.name} />
+            ) : (
+              <>
+                <h2 className="text-lg font-semibold">Pledge to this test</h2>
+                <Button asChild>
+                  <Link href={`/sign-in?callbackUrl=${encodeURIComponent(`/campaigns/${campaign.slug}`)}`}>Sign in to pledge</Link>
+                </Button>
+                <p className="text-xs text-muted">Pledges are goal-or-refund: refunded in full if the goal is not reached by the deadline.</p>
+              </>
+            )}
+          </Card>
+        ) : null}
       </aside>
     </article>
   );
