@@ -49,7 +49,8 @@ export async function runMeshBench(): Promise<MeshBenchFigures> {
   }
 }
 
-function writeTorusStl(file: string): number {
+/** Writes the benchmark torus as a binary STL; returns its triangle count. Shared with the upload bench. */
+export function writeTorusStl(file: string): number {
   const grid = torusGrid();
   const triangleCount = MAJOR_SEGMENTS * MINOR_SEGMENTS * 2;
   const descriptor = openSync(file, "w");

@@ -2,16 +2,12 @@
 // POST /api/models/analyze of a running app, while GET /api/health is timed every 50 ms to show
 // whether the server keeps answering during the upload and the analysis.
 //   npx tsx bench/model-upload.ts http://localhost:3000
-import { closeSync, mkdtempSync, openAsBlob, openSync, rmSync, writeSync } from "node:fs";
+import { mkdtempSync, openAsBlob, rmSync } from "node:fs";
 import { tmpdir } from "node:os";
 import path from "node:path";
 import { fileURLToPath } from "node:url";
+import { writeTorusStl } from "./estimate-mesh";
 
-const MAJOR_SEGMENTS = 1000;
-const MINOR_SEGMENTS = 500;
-const MAJOR_RADIUS_MM = 40;
-const MINOR_RADIUS_MM = 15;
-const TRIANGLES_PER_CHUNK = 20_000;
 const STL_TRIANGLE_BYTES = 50;
 const HEALTH_INTERVAL_MS = 50;
 const IDLE_PROBES = 20;
@@ -40,7 +36,8 @@ export async function runModelUploadBench(appUrl: string): Promise<ModelUploadBe
   const directory = mkdtempSync(path.join(tmpdir(), "proofbay-upload-bench-"));
   try {
     const file = path.join(directory, "torus.stl");
-    const { triangleCount, bytes: fileBytes } = writeTorusStl(file);
+    const triangleCount = writeTorusStl(file);
+    const fileBytes = 84 + triangleCount * STL_TRIANGLE_BYTES;
     const healthIdle = summarize(await probeHealth(base, () => IDLE_PROBES));
 
     let uploading = true;
@@ -99,58 +96,6 @@ function summarize(latencies: readonly number[]): LatencySummary {
 }
 
 /** Same torus as bench/estimate-mesh.ts: every grid point computed once, outward winding, resting on z = 0. */
-function writeTorusStl(file: string): { triangleCount: number; bytes: number } {
-  const grid = new Float32Array(MAJOR_SEGMENTS * MINOR_SEGMENTS * 3);
-  for (let i = 0; i < MAJOR_SEGMENTS; i++) {
-    const theta = (2 * Math.PI * i) / MAJOR_SEGMENTS;
-    for (let j = 0; j < MINOR_SEGMENTS; j++) {
-      const phi = (2 * Math.PI * j) / MINOR_SEGMENTS;
-      const ring = MAJOR_RADIUS_MM + MINOR_RADIUS_MM * Math.cos(phi);
-      const k = 3 * (i * MINOR_SEGMENTS + j);
-      grid[k] = ring * Math.cos(theta);
-      grid[k + 1] = ring * Math.sin(theta);
-      grid[k + 2] = MINOR_RADIUS_MM + MINOR_RADIUS_MM * Math.sin(phi);
-    }
-  }
-  const at = (i: number, j: number) => 3 * ((i % MAJOR_SEGMENTS) * MINOR_SEGMENTS + (j % MINOR_SEGMENTS));
-  const triangleCount = MAJOR_SEGMENTS * MINOR_SEGMENTS * 2;
-  const descriptor = openSync(file, "w");
-  try {
-    const header = Buffer.alloc(84);
-    header.write("proofbay upload benchmark torus", 0, "ascii");
-    header.writeUInt32LE(triangleCount, 80);
-    writeSync(descriptor, header);
-    const chunk = Buffer.alloc(TRIANGLES_PER_CHUNK * STL_TRIANGLE_BYTES);
-    let slot = 0;
-    const put = (a: number, b: number, c: number) => {
-      let offset = slot * STL_TRIANGLE_BYTES;
-      chunk.fill(0, offset, offset + 12); // zero normal: readers recompute it from the winding
-      offset += 12;
-      for (const corner of [a, b, c]) {
-        for (let axis = 0; axis < 3; axis++) {
-          chunk.writeFloatLE(grid[corner + axis]!, offset);
-          offset += 4;
-        }
-      }
-      chunk.writeUInt16LE(0, offset);
-      if (++slot === TRIANGLES_PER_CHUNK) {
-        writeSync(descriptor, chunk);
-        slot = 0;
-      }
-    };
-    for (let i = 0; i < MAJOR_SEGMENTS; i++) {
-      for (let j = 0; j < MINOR_SEGMENTS; j++) {
-        put(at(i, j), at(i + 1, j), at(i + 1, j + 1));
-        put(at(i, j), at(i + 1, j + 1), at(i, j + 1));
-      }
-    }
-    if (slot > 0) writeSync(descriptor, chunk, 0, slot * STL_TRIANGLE_BYTES);
-  } finally {
-    closeSync(descriptor);
-  }
-  return { triangleCount, bytes: 84 + triangleCount * STL_TRIANGLE_BYTES };
-}
-
 function report(figures: ModelUploadBenchFigures): void {
   const ms = (value: number | undefined) => (value === undefined ? "–" : `${value.toFixed(0)} ms`);
   const latency = (summary: LatencySummary) => `p50 ${ms(summary.p50Ms)}, max ${ms(summary.maxMs)} (${summary.count} probes)`;

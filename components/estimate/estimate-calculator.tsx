@@ -48,6 +48,8 @@ const friendlyIssue: z.core.$ZodErrorMap = (issue) => {
 const FIELD_PATH =
   /^(printerSlug|material|filamentDiameterMm|layerHeightMm|fanPercent|variantCount|repeats|pieces|flow(\.(mm3PerS|lineWidthMm|speedMmPerS))?|pieces\.\d+\.(name|filamentGrams|filamentMetres))$/;
 
+type NumberFieldName = "layerHeightMm" | "fanPercent" | "flow.lineWidthMm" | "flow.speedMmPerS" | "variantCount" | "repeats";
+
 function readApiError(payload: unknown): ApiError | undefined {
   if (typeof payload !== "object" || payload === null || !("error" in payload)) return undefined;
   const error = (payload as { error: unknown }).error;
@@ -107,6 +109,28 @@ export function EstimateCalculator({ printers, materials }: { printers: Calculat
 
   const errorFor = (path: string): string | undefined =>
     (get(errors, path) as { message?: string } | undefined)?.message ?? serverErrors[path];
+
+  /** A labelled number input bound to the form, with its error and optional hint. */
+  const numberField = (
+    name: NumberFieldName,
+    label: string,
+    options: { step: number; min: number; max: number; inputMode: "decimal" | "numeric"; hint?: string },
+  ) => (
+    <Field id={fieldId(name)} label={label} error={errorFor(name)} hint={options.hint}>
+      {(control) => (
+        <input
+          {...control}
+          type="number"
+          inputMode={options.inputMode}
+          step={options.step}
+          min={options.min}
+          max={options.max}
+          className={numberInputClass}
+          {...register(name, { valueAsNumber: true })}
+        />
+      )}
+    </Field>
+  );
 
   const send = useCallback(async (body: EstimateRequest) => {
     inFlight.current?.abort();
@@ -308,34 +332,8 @@ export function EstimateCalculator({ printers, materials }: { printers: Calculat
 
           <FormSection title="Protocol" gap="gap-4">
             <div className="grid grid-cols-2 gap-4">
-              <Field id={fieldId("layerHeightMm")} label="Layer height (mm)" error={errorFor("layerHeightMm")}>
-                {(control) => (
-                  <input
-                    {...control}
-                    type="number"
-                    inputMode="decimal"
-                    step={0.01}
-                    min={0.04}
-                    max={1}
-                    className={numberInputClass}
-                    {...register("layerHeightMm", { valueAsNumber: true })}
-                  />
-                )}
-              </Field>
-              <Field id={fieldId("fanPercent")} label="Part-cooling fan (%)" error={errorFor("fanPercent")}>
-                {(control) => (
-                  <input
-                    {...control}
-                    type="number"
-                    inputMode="decimal"
-                    step={1}
-                    min={0}
-                    max={100}
-                    className={numberInputClass}
-                    {...register("fanPercent", { valueAsNumber: true })}
-                  />
-                )}
-              </Field>
+              {numberField("layerHeightMm", "Layer height (mm)", { step: 0.01, min: 0.04, max: 1, inputMode: "decimal" })}
+              {numberField("fanPercent", "Part-cooling fan (%)", { step: 1, min: 0, max: 100, inputMode: "decimal" })}
             </div>
 
             <fieldset className="flex flex-col gap-3 rounded-lg border border-line p-4" aria-describedby={errorFor("flow") ? `${fieldId("flow")}-error` : undefined}>
@@ -394,34 +392,8 @@ export function EstimateCalculator({ printers, materials }: { printers: Calculat
               ) : (
                 <div key="lineSpeed" className="flex flex-col gap-3">
                   <div className="grid grid-cols-2 gap-4">
-                    <Field id={fieldId("flow.lineWidthMm")} label="Line width (mm)" error={errorFor("flow.lineWidthMm")}>
-                      {(control) => (
-                        <input
-                          {...control}
-                          type="number"
-                          inputMode="decimal"
-                          step={0.01}
-                          min={0.1}
-                          max={3}
-                          className={numberInputClass}
-                          {...register("flow.lineWidthMm", { valueAsNumber: true })}
-                        />
-                      )}
-                    </Field>
-                    <Field id={fieldId("flow.speedMmPerS")} label="Print speed (mm/s)" error={errorFor("flow.speedMmPerS")}>
-                      {(control) => (
-                        <input
-                          {...control}
-                          type="number"
-                          inputMode="decimal"
-                          step={1}
-                          min={1}
-                          max={2000}
-                          className={numberInputClass}
-                          {...register("flow.speedMmPerS", { valueAsNumber: true })}
-                        />
-                      )}
-                    </Field>
+                    {numberField("flow.lineWidthMm", "Line width (mm)", { step: 0.01, min: 0.1, max: 3, inputMode: "decimal" })}
+                    {numberField("flow.speedMmPerS", "Print speed (mm/s)", { step: 1, min: 1, max: 2000, inputMode: "decimal" })}
                   </div>
                   <p className="rounded-md bg-teal-soft/60 px-3 py-2 text-sm">
                     Flow = layer height × line width × speed ={" "}
@@ -532,39 +504,8 @@ export function EstimateCalculator({ printers, materials }: { printers: Calculat
 
           <FormSection title="Plan shape" gap="gap-4">
             <div className="grid grid-cols-2 gap-4">
-              <Field
-                id={fieldId("variantCount")}
-                label="Variants"
-                error={errorFor("variantCount")}
-                hint="Including the reference: stock part + 2 under test = 3."
-              >
-                {(control) => (
-                  <input
-                    {...control}
-                    type="number"
-                    inputMode="numeric"
-                    step={1}
-                    min={1}
-                    max={12}
-                    className={numberInputClass}
-                    {...register("variantCount", { valueAsNumber: true })}
-                  />
-                )}
-              </Field>
-              <Field id={fieldId("repeats")} label="Repeats" error={errorFor("repeats")} hint="Prints of each piece per variant.">
-                {(control) => (
-                  <input
-                    {...control}
-                    type="number"
-                    inputMode="numeric"
-                    step={1}
-                    min={1}
-                    max={20}
-                    className={numberInputClass}
-                    {...register("repeats", { valueAsNumber: true })}
-                  />
-                )}
-              </Field>
+              {numberField("variantCount", "Variants", { step: 1, min: 1, max: 12, inputMode: "numeric", hint: "Including the reference: stock part + 2 under test = 3." })}
+              {numberField("repeats", "Repeats", { step: 1, min: 1, max: 20, inputMode: "numeric", hint: "Prints of each piece per variant." })}
             </div>
           </FormSection>
         </form>
