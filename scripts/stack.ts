@@ -19,6 +19,8 @@ export type StackOptions = {
   /** Start from an empty database file (tests); the demo keeps its data across restarts. */
   fresh: boolean;
   quiet?: boolean;
+  /** `dev` runs `next dev` (hot reload) instead of the built app. */
+  nextCommand?: "start" | "dev";
 };
 
 export type RunningStack = { appUrl: string; inbox: FakeInbox; stripe: RunningFakeStripe; app: ChildProcess; stop(): Promise<void> };
@@ -75,11 +77,12 @@ export async function startStack(options: StackOptions): Promise<RunningStack> {
     quiet: true,
   });
 
-  const app = spawn(path.join("node_modules", ".bin", "next"), ["start", "-p", String(options.port)], {
+  const nextCommand = options.nextCommand ?? "start";
+  const app = spawn(path.join("node_modules", ".bin", "next"), [nextCommand, "-p", String(options.port)], {
     stdio: options.quiet ? ["ignore", "ignore", "inherit"] : "inherit",
     env: {
       ...process.env,
-      NODE_ENV: "production",
+      NODE_ENV: nextCommand === "dev" ? "development" : "production",
       NEXT_TELEMETRY_DISABLED: "1",
       PORT: String(options.port),
       DATABASE_PATH: options.databasePath,
@@ -102,7 +105,7 @@ export async function startStack(options: StackOptions): Promise<RunningStack> {
     await Promise.all([inbox.close(), stripe.close()]);
   };
 
-  await waitForHttp(`${env.appUrl}/api/health`, 30_000).catch(async (error) => {
+  await waitForHttp(`${env.appUrl}/api/health`, nextCommand === "dev" ? 120_000 : 30_000).catch(async (error) => {
     await stop();
     throw error;
   });
