@@ -10,6 +10,7 @@ import { runEstimateApiBench } from "./estimate-api";
 import { runMeshBench } from "./estimate-mesh";
 import { runTriageBench } from "./triage";
 import { runModelUploadBench } from "./model-upload";
+import { runPledgeStartBench, runWebhookBench } from "./money";
 
 type Check = { name: string; figure: string; budget: string; pass: boolean };
 
@@ -64,6 +65,26 @@ try {
     figure: `${upload.status} in ${upload.totalMs.toFixed(0)} ms; health max ${upload.healthDuringUpload.maxMs.toFixed(0)} ms (p50 ${upload.healthDuringUpload.p50Ms.toFixed(0)} ms, ${upload.healthDuringUpload.count} probes) vs idle max ${upload.healthIdle.maxMs.toFixed(0)} ms`,
     budget: `analysed without blocking other requests (200, health max < ${healthLimitMs.toFixed(0)} ms = max(3× idle max, 50 ms))`,
     pass: upload.status === 200 && upload.healthDuringUpload.count > 0 && upload.healthDuringUpload.maxMs < healthLimitMs,
+  });
+
+  progress("webhook endpoint: signed Checkout events, one in ten delivered twice");
+  const webhook = await runWebhookBench(stack.appUrl, "data/bench-3200.db");
+  results.webhook = webhook;
+  checks.push({
+    name: `POST /api/stripe/webhook (${webhook.uniqueEvents} events, ${webhook.deliveries} deliveries, 32 connections)`,
+    figure: `${Math.round(webhook.eventsPerSecond)} verified events/s (p99 ${webhook.p99Ms} ms); ${webhook.non2xx + webhook.errors} failed; ledger ${webhook.ledgerRows}, paid ${webhook.paidPledges}, events ${webhook.recordedEvents}; funded ${webhook.fundedTransitions}×`,
+    budget: ">= 500 events/s, 0 lost or doubled",
+    pass: webhook.eventsPerSecond >= 500 && webhook.lostOrDoubled === 0 && webhook.non2xx + webhook.errors === 0 && webhook.fundedTransitions === 1,
+  });
+
+  progress("pledge start: Checkout Session creation at 50 concurrent");
+  const pledgeStart = await runPledgeStartBench({ appUrl: stack.appUrl, databasePath: "data/bench-3200.db", stripeUrl: stack.stripe.url });
+  results.pledgeStart = pledgeStart;
+  checks.push({
+    name: `pledge start (${pledgeStart.requests} starts, ${pledgeStart.concurrency} concurrent, fake Stripe over HTTP)`,
+    figure: `p99 ${pledgeStart.p99Ms} ms (p50 ${pledgeStart.p50Ms} ms), ${pledgeStart.failures} failed`,
+    budget: "p99 < 100 ms",
+    pass: pledgeStart.p99Ms < 100 && pledgeStart.failures === 0,
   });
 
   // Last on the stack: it adds 10,000 generated proposals to the bench database.
