@@ -8,9 +8,14 @@ import { startStack } from "../scripts/stack";
 import { runBoardBench } from "./board";
 import { runEstimateApiBench } from "./estimate-api";
 import { runMeshBench } from "./estimate-mesh";
+import { runQueueApiBench } from "./queue-api";
 import { runTriageBench } from "./triage";
 import { runModelUploadBench } from "./model-upload";
 import { runPledgeStartBench, runWebhookBench } from "./money";
+import { BRADLEY_TERRY_BUDGET_MS, runBradleyTerryBench } from "./bradley-terry";
+import { MAKESPAN_BUDGET_RATIO, runScheduleBench, SCHEDULE_BUDGET_MS } from "./schedule";
+import { runMailFanoutBench } from "./mail-fanout";
+import { REPORT_PUBLISH_BUDGET_MS, runReportPublishBench } from "./report-publish";
 
 type Check = { name: string; figure: string; budget: string; pass: boolean };
 
@@ -87,6 +92,25 @@ try {
     pass: pledgeStart.p99Ms < 100 && pledgeStart.failures === 0,
   });
 
+  // Adds 100 funded campaigns (2,000 jobs) and 9 printers to the bench database.
+  progress("queue board API: 2,000 jobs on 12 printers");
+  const queue = await runQueueApiBench(stack.appUrl, "data/bench-3200.db");
+  results.queueApi = queue;
+  checks.push(
+    {
+      name: `GET /api/lab/queue p50 (host, ${queue.jobs} jobs on ${queue.printers} printers)`,
+      figure: queue.http ? `${queue.http.p50Ms} ms (p99 ${queue.http.p99Ms} ms)` : "not run",
+      budget: "< 50 ms",
+      pass: queue.http !== undefined && queue.http.p50Ms < 50,
+    },
+    {
+      name: "queue recompute (load, schedule, store, dates, mails; median) / a printer marked down",
+      figure: `${queue.recomputeMedianMs} ms / ${queue.printerDownMs} ms (${queue.printerDownJobsMoved} jobs moved); board JSON after a change p50 ${queue.boardReadAfterChange.p50Ms} ms`,
+      budget: "(reported)",
+      pass: true,
+    },
+  );
+
   // Last on the stack: it adds 10,000 generated proposals to the bench database.
   progress("triage query over 10,000 proposals");
   const triage = await runTriageBench(stack.appUrl, "data/bench-3200.db");
@@ -124,6 +148,70 @@ checks.push(
     figure: `${mesh.peakRssToFileRatio.toFixed(2)}× file size`,
     budget: "< 3×",
     pass: mesh.meetsMemoryTarget,
+  },
+);
+
+progress("Bradley–Terry fit: 20 variants from 50,000 blind-pair votes");
+const bradleyTerry = runBradleyTerryBench();
+results.bradleyTerry = bradleyTerry;
+checks.push(
+  {
+    name: `Bradley–Terry fit (${bradleyTerry.variants} variants, ${bradleyTerry.votes} votes, median of ${bradleyTerry.runs})`,
+    figure: `${bradleyTerry.fitMedianMs} ms (${bradleyTerry.iterations} MM steps, rank correlation ${bradleyTerry.rankCorrelation})`,
+    budget: `< ${BRADLEY_TERRY_BUDGET_MS} ms`,
+    pass: bradleyTerry.fitMedianMs < BRADLEY_TERRY_BUDGET_MS && bradleyTerry.converged && bradleyTerry.rankCorrelation > 0.95,
+  },
+  {
+    name: `Bradley–Terry bootstrap (${bradleyTerry.bootstrapReplicates} resamples of the same votes)`,
+    figure: `${bradleyTerry.bootstrapMs} ms`,
+    budget: "(reported)",
+    pass: true,
+  },
+);
+
+progress("print queue: 2,000 jobs on 12 printers; makespan on random instances");
+const schedule = runScheduleBench();
+results.schedule = schedule;
+checks.push(
+  {
+    name: `schedule ${schedule.jobs} jobs on ${schedule.printers} printers (windows, maintenance, changeovers; median of ${schedule.runs})`,
+    figure: `${schedule.medianMs} ms (first run ${schedule.firstRunMs} ms), ${schedule.unplaced} unplaced`,
+    budget: `< ${SCHEDULE_BUDGET_MS} ms`,
+    pass: schedule.medianMs < SCHEDULE_BUDGET_MS && schedule.unplaced === 0,
+  },
+  {
+    name: `makespan ÷ max(total/m, longest), worst of ${schedule.makespan.instances} random instances without windows`,
+    figure: `${schedule.makespan.worstRatioLpt} (by campaign classes ${schedule.makespan.worstRatioByCampaign})`,
+    budget: `≤ ${MAKESPAN_BUDGET_RATIO}`,
+    pass: schedule.makespan.worstRatioLpt <= MAKESPAN_BUDGET_RATIO,
+  },
+);
+
+progress("publishing a report to 10,000 backers: the publish transaction with its outbox rows");
+const reportPublish = runReportPublishBench();
+results.reportPublish = reportPublish;
+checks.push({
+  name: `publish a report to ${reportPublish.backers} paid backers (state change + outbox rows, one transaction)`,
+  figure: `${reportPublish.publishMs} ms, ${reportPublish.queued} queued, ${reportPublish.duplicates} duplicates, ${reportPublish.stateChanges} state change (second publish ${reportPublish.secondPublishMs} ms)`,
+  budget: `< ${REPORT_PUBLISH_BUDGET_MS} ms, one per backer, once`,
+  pass: reportPublish.publishMs < REPORT_PUBLISH_BUDGET_MS && reportPublish.duplicates === 0 && reportPublish.stateChanges === 1,
+});
+
+progress("report mail to 10,000 backers through the fake SMTP inbox; then kill -9 the worker mid-run and restart it");
+const mail = await runMailFanoutBench();
+results.mailFanout = mail;
+checks.push(
+  {
+    name: `report mail to ${mail.messages} backers (real worker, pooled SMTP, fake inbox)`,
+    figure: `${mail.fanout.seconds.toFixed(1)} s (${Math.round(mail.fanout.messagesPerSecond)}/s), ${mail.fanout.received} received, ${mail.fanout.duplicateMessageIds} duplicate Message-IDs`,
+    budget: "all delivered < 60 s, 0 duplicates",
+    pass: mail.meetsTimeTarget,
+  },
+  {
+    name: `worker SIGKILLed after ${mail.crash.receivedWhenKilled} received, restarted`,
+    figure: `${mail.crash.recipientsWithExactlyOne}/${mail.messages} recipients hold exactly one; SMTP accepted ${mail.crash.duplicateMessageIds} Message-IDs twice (${mail.crash.interruptedAttempts} interrupted attempts), dropped by the receiver`,
+    budget: "every recipient exactly one",
+    pass: mail.exactlyOnce,
   },
 );
 

@@ -4,7 +4,9 @@ import type { SQLiteInsertValue, SQLiteTable } from "drizzle-orm/sqlite-core";
 import { estimateTestPlan, type PlanPrinter } from "../lib/estimate/plan";
 import type { Db } from "./client";
 import { labPricing, testPlanInput } from "./queries/pricing";
+import { recomputeQueueInTx } from "./queries/queue";
 import * as s from "./schema";
+import { seedReportExtras } from "./seed-reports";
 import {
   BACKERS,
   CAMPAIGNS,
@@ -34,6 +36,7 @@ export const seedTables = [
   "lab_settings",
   "filament_price",
   "printer",
+  "lab_start_window",
   "membership_plan",
   "user",
   "membership",
@@ -46,6 +49,7 @@ export const seedTables = [
   "test_plan_piece",
   "test_plan_variant",
   "job",
+  "job_run",
   "pledge",
   "ledger_entry",
   "report",
@@ -218,6 +222,7 @@ const tableOf = {
   lab_settings: s.labSettings,
   filament_price: s.filamentPrices,
   printer: s.printers,
+  lab_start_window: s.labStartWindows,
   membership_plan: s.membershipPlans,
   user: s.users,
   membership: s.memberships,
@@ -230,6 +235,7 @@ const tableOf = {
   test_plan_piece: s.testPlanPieces,
   test_plan_variant: s.testPlanVariants,
   job: s.jobs,
+  job_run: s.jobRuns,
   pledge: s.pledges,
   ledger_entry: s.ledgerEntries,
   report: s.reports,
@@ -297,6 +303,14 @@ function buildRows(now: Date, userId: (key: string) => string): Omit<Rows, "user
     test_plan_piece: [],
     test_plan_variant: [],
     job: [],
+    job_run: [],
+    lab_start_window: [1, 2, 3, 4, 5, 6, 7].map((isoWeekday) => ({
+      id: seedId("start-window", String(isoWeekday)),
+      isoWeekday,
+      startMinute: STAFFED_FROM_HOUR * 60,
+      endMinute: STAFFED_UNTIL_HOUR * 60,
+      createdAt: daysAgo(500),
+    })),
     pledge: [],
     ledger_entry: [],
     report: [],
@@ -660,7 +674,34 @@ function buildRows(now: Date, userId: (key: string) => string): Omit<Rows, "user
     }
   }
 
+  rows.job_run = seedJobRuns(rows.job);
   return rows;
+}
+
+/** The run log behind the seeded jobs: one finished run per done job, an open one per running job. */
+function seedJobRuns(jobRows: readonly InferInsertModel<typeof s.jobs>[]): InferInsertModel<typeof s.jobRuns>[] {
+  const efficiencyById = new Map(PRINTERS.map((p) => [seedId("printer", p.key), p.efficiency]));
+  return jobRows.flatMap((job) => {
+    if ((job.state !== "done" && job.state !== "running") || !job.printerId || !job.scheduledStart || !job.id) return [];
+    const startedAt = job.scheduledStart.getTime();
+    const done = job.state === "done" && job.actualHours != null;
+    return [
+      {
+        id: seedId("job-run", job.id),
+        jobId: job.id,
+        attempt: 1,
+        printerId: job.printerId,
+        startedAt: new Date(startedAt),
+        finishedAt: done ? new Date(startedAt + Math.round((job.actualHours ?? 0) * HOUR)) : null,
+        estimatedHoursAtStart: job.estimatedHours,
+        efficiencyAtStart: required(efficiencyById.get(job.printerId), "printer efficiency"),
+        actualHours: done ? job.actualHours : null,
+        filamentUsedGrams: done ? job.filamentUsedGrams : null,
+        outcome: done ? "done" : null,
+        notes: done ? job.notes : null,
+      },
+    ];
+  });
 }
 
 /** Someone is in the lab to start a job from 08:00 to 20:00, lab time, every day. */
@@ -774,6 +815,17 @@ export function seedDemo(db: Db, options: { now?: Date } = {}): SeedSummary {
       inserted[table] = insertRows(tx, tableOf[table] as SQLiteTable, list as InferInsertModel<SQLiteTable>[]);
     }
     recountVotes(tx);
+    const extras = seedReportExtras(tx, now, seedId, userId);
+    // Jobs for funded campaigns without any, placements and results dates; the seeded past already told backers their dates.
+    const queue = recomputeQueueInTx(tx, { now, appUrl: "", mail: false });
+    inserted.job += queue.jobsCreated;
+    counts.job = tx
+      .select({ id: s.jobs.id })
+      .from(s.jobs)
+      .where(inArray(s.jobs.campaignId, rows.campaign.map((c) => required(c.id, "campaign id"))))
+      .all().length;
+    counts.report += extras.reports;
+    inserted.report += extras.reportsInserted;
     return { counts, inserted };
   });
 }

@@ -1,7 +1,8 @@
 import { Body, Container, Head, Hr, Html, Preview, Section, Text } from "@react-email/components";
 import type { ReactNode } from "react";
+import { emailColors } from "./email-colors";
 
-export const emailColors = { ink: "#1b2330", paper: "#f7f5f0", teal: "#0e5e5b", muted: "#5b6472" };
+export { emailColors };
 
 export function EmailLayout({ preview, children }: { preview: string; children: ReactNode }) {
   return (
@@ -18,8 +19,11 @@ export function EmailLayout({ preview, children }: { preview: string; children: 
           <Text style={{ fontSize: 12, color: emailColors.muted }}>
             Harbor Street Print Lab · sent by Proofbay, the lab&apos;s test-funding site.
           </Text>
+          {/* The per-message note (unsubscribe link or "always sent"), filled in by renderEmail. */}
+          <div id="proofbay-email-footer" />
         </Container>
       </Body>
     </Html>
   );
 }
+

@@ -7,7 +7,8 @@ import { randomBytes } from "node:crypto";
 import { existsSync, mkdirSync, readFileSync, rmSync, writeFileSync } from "node:fs";
 import path from "node:path";
 import { migrateDatabase, openDatabase } from "../db/client";
-import { seedDemo } from "../db/seed";
+import { seedDemo, seedId } from "../db/seed";
+import { seedReportPhotos } from "../db/seed-reports";
 import { startFakeInbox, type FakeInbox } from "../fakes/smtp/inbox";
 import { startFakeStripe, type RunningFakeStripe } from "../fakes/stripe/server";
 import { parseEnv } from "../lib/env";
@@ -61,6 +62,13 @@ async function waitForHttp(url: string, timeoutMs: number): Promise<void> {
 export async function startStack(options: StackOptions): Promise<RunningStack> {
   const env = parseEnv({ ...process.env, PORT: String(options.port), DATABASE_PATH: options.databasePath });
   prepareDatabase(options.databasePath, options.fresh);
+  // Generated photos for the seeded report need files, so they are written after the synchronous seed.
+  const photoDb = openDatabase(options.databasePath);
+  try {
+    await seedReportPhotos(photoDb, env.uploadsDir, seedId);
+  } finally {
+    photoDb.$client.close();
+  }
   const authSecret = process.env.AUTH_SECRET ?? loadOrCreateSecret(options.databasePath);
 
   const inbox = await startFakeInbox({

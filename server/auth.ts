@@ -48,8 +48,10 @@ export const { handlers, auth, signIn, signOut } = NextAuth(() => ({
       from: env.smtp.from,
       maxAge: MAGIC_LINK_MINUTES * 60,
       async sendVerificationRequest({ identifier, url }) {
+        // Sent directly, not through the outbox: the link must arrive at once and lives 10 minutes.
         const mail = await renderEmail(
           createElement(SignInLinkEmail, { url: confirmationUrl(url), minutesValid: MAGIC_LINK_MINUTES }),
+          { kind: "account" },
         );
         await sendMail({ to: identifier, subject: "Your Proofbay sign-in link", ...mail });
       },

@@ -1,6 +1,7 @@
 import "server-only";
 import Stripe from "stripe";
 import type { Db } from "@/db/client";
+import { groupCommitFor } from "@/db/group-commit";
 import { attachCheckoutSession, failUnstartedPledge, openPendingPledge } from "@/db/queries/pledges";
 import type { Campaign, Pledge } from "@/db/schema";
 import { formatMoney } from "@/lib/format";
@@ -56,10 +57,10 @@ export async function startPledgeCheckout(
   input: { slug: string; supporter: { id: string; email: string }; amountText: string; publicName: string | null; appUrl: string },
   now = new Date(),
 ): Promise<PledgeCheckout> {
-  const { pledge, campaign, reused } = openPendingPledge(
-    db,
-    { slug: input.slug, supporterId: input.supporter.id, amountText: input.amountText, publicName: input.publicName },
-    now,
+  // Both writes go through the shared group commit: concurrent starts share one durable fsync.
+  const commit = groupCommitFor(db);
+  const { pledge, campaign, reused } = await commit((tx) =>
+    openPendingPledge(tx, { slug: input.slug, supporterId: input.supporter.id, amountText: input.amountText, publicName: input.publicName }, now),
   );
   let session: Stripe.Checkout.Session;
   try {
@@ -78,6 +79,6 @@ export async function startPledgeCheckout(
   if (!session.url) {
     return { kind: "processor_error", pledgeId: pledge.id, message: "This payment page is no longer available. Start the pledge again." };
   }
-  attachCheckoutSession(db, pledge.id, session.id);
+  await commit((tx) => attachCheckoutSession(tx, pledge.id, session.id));
   return { kind: "redirect", pledgeId: pledge.id, sessionId: session.id, url: session.url, reused };
 }

@@ -1,28 +1,24 @@
 import "server-only";
-import nodemailer, { type Transporter } from "nodemailer";
+import type { Transporter } from "nodemailer";
 import { env } from "@/lib/env";
+import { createSmtpTransport, type OutgoingMail, type SendMail } from "./mail-transport";
 
-const cache = globalThis as unknown as { proofbayMailer?: Transporter };
+export type { OutgoingMail } from "./mail-transport";
 
-/** One SMTP transport per process. Pointing SMTP_* at a real provider is the only change needed. */
-export function getMailer(): Transporter {
-  cache.proofbayMailer ??= nodemailer.createTransport({
-    host: env.smtp.host,
-    port: env.smtp.port,
-    secure: env.smtp.secure,
-    ignoreTLS: !env.smtp.secure && env.smtp.user === undefined,
-    auth: env.smtp.user ? { user: env.smtp.user, pass: env.smtp.password ?? "" } : undefined,
-    connectionTimeout: 5_000,
-  });
+const cache = globalThis as unknown as { proofbayMailer?: { transporter: Transporter; send: SendMail } };
+
+/** One pooled SMTP transport per process. Pointing SMTP_* at a real provider is the only change needed. */
+function mailer() {
+  cache.proofbayMailer ??= createSmtpTransport(env.smtp);
   return cache.proofbayMailer;
 }
 
-export type OutgoingMail = { to: string; subject: string; html: string; text: string; headers?: Record<string, string> };
+export function getMailer(): Transporter {
+  return mailer().transporter;
+}
 
 export async function sendMail(mail: OutgoingMail): Promise<void> {
-  const result = await getMailer().sendMail({ from: env.smtp.from, ...mail });
-  const failed = [...(result.rejected ?? []), ...(result.pending ?? [])];
-  if (failed.length > 0) throw new Error(`Mail to ${failed.join(", ")} was not accepted`);
+  await mailer().send(mail);
 }
 
 export async function checkSmtp(timeoutMs = 2_000): Promise<{ ok: boolean; error?: string }> {

@@ -20,9 +20,38 @@ export default async function LabLayout({ children }: { children: React.ReactNod
           <Link href="/lab/pieces" className="rounded-md px-3 py-1.5 hover:bg-teal-soft">
             Piece library
           </Link>
+          <Link href="/lab/queue" className="rounded-md px-3 py-1.5 hover:bg-teal-soft">
+            Print queue
+          </Link>
+          <Link href="/lab/jobs" className="rounded-md px-3 py-1.5 hover:bg-teal-soft">
+            Run log
+          </Link>
+          <Link href="/lab/calendar" className="rounded-md px-3 py-1.5 hover:bg-teal-soft">
+            Calendar
+          </Link>
+          <Link href="/lab/calibration" className="rounded-md px-3 py-1.5 hover:bg-teal-soft">
+            Calibration
+          </Link>
+          <Link href="/lab/reports" className="rounded-md px-3 py-1.5 hover:bg-teal-soft">
+            Reports
+          </Link>
+          <Link href="/lab/campaigns" className="rounded-md px-3 py-1.5 hover:bg-teal-soft">
+            Campaigns
+          </Link>
+          <Link href="/lab/fund" className="rounded-md px-3 py-1.5 hover:bg-teal-soft">
+            Lab fund
+          </Link>
+          <Link href="/lab/ledger" className="rounded-md px-3 py-1.5 hover:bg-teal-soft">
+            Ledger
+          </Link>
           <Link href="/lab/outbox" className="rounded-md px-3 py-1.5 hover:bg-teal-soft">
             Outbox
           </Link>
+          {hasRole(viewer.role, "admin") ? (
+            <Link href="/lab/printers" className="rounded-md px-3 py-1.5 hover:bg-teal-soft">
+              Printers
+            </Link>
+          ) : null}
           {hasRole(viewer.role, "admin") ? (
             <Link href="/lab/settings" className="rounded-md px-3 py-1.5 hover:bg-teal-soft">
               Settings

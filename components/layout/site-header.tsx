@@ -22,8 +22,17 @@ export function SiteHeader({ viewer }: { viewer: Viewer | null }) {
           <Link href="/proposals" className="rounded-md px-1.5 py-2 hover:bg-teal-soft sm:px-3">
             Proposals
           </Link>
+          <Link href="/reports" className="rounded-md px-1.5 py-2 hover:bg-teal-soft sm:px-3">
+            Reports
+          </Link>
+          <Link href="/queue" className="rounded-md px-1.5 py-2 hover:bg-teal-soft sm:px-3">
+            Queue
+          </Link>
           <Link href="/calculator" className="rounded-md px-1.5 py-2 hover:bg-teal-soft sm:px-3">
             Calculator
+          </Link>
+          <Link href="/club" className="rounded-md px-1.5 py-2 hover:bg-teal-soft sm:px-3">
+            Club
           </Link>
           {viewer && hasRole(viewer.role, "host") ? (
             <Link href="/lab" className="inline-flex items-center gap-1.5 rounded-md px-1.5 py-2 hover:bg-teal-soft sm:px-3">

@@ -7,6 +7,7 @@ import { RuleViolation } from "../../lib/rule-violation";
 import type { Db } from "../client";
 import { campaigns, labSettings, ledgerEntries, pledges, users, type Campaign, type Pledge } from "../schema";
 import { enqueueMail } from "./outbox";
+import { materialiseJobs } from "./queue-jobs";
 
 type Tx = Parameters<Parameters<Db["transaction"]>[0]>[0];
 
@@ -21,7 +22,7 @@ export type OpenedPledge = { pledge: Pledge; campaign: Campaign; reused: boolean
  * double click, lib/pledges/rules.ts `isReusable`), or a new `pending` pledge is written.
  */
 export function openPendingPledge(
-  db: Db,
+  db: Db | Tx,
   input: { slug: string; supporterId: string; amountText: string; publicName: string | null },
   now = new Date(),
 ): OpenedPledge {
@@ -66,7 +67,7 @@ export function openPendingPledge(
 }
 
 /** Stores the Checkout Session on its pledge (once; a retry with the same session is a no-op). */
-export function attachCheckoutSession(db: Db, pledgeId: string, sessionId: string): void {
+export function attachCheckoutSession(db: Db | Tx, pledgeId: string, sessionId: string): void {
   const result = db
     .update(pledges)
     .set({ checkoutSessionId: sessionId })
@@ -190,10 +191,10 @@ export function raisedMinor(tx: Tx | Db, campaignId: string): number {
 
 /**
  * Recomputes what the campaign has raised and, when it reaches the goal while the campaign is
- * still open, moves it to `funded` — a conditional UPDATE, so it happens exactly once — and queues
- * one "campaign funded" mail per backer.
+ * still open, moves it to `funded` — a conditional UPDATE, so it happens exactly once — writes its
+ * print jobs, and queues one "campaign funded" mail per backer.
  */
-function fundIfGoalReached(tx: Tx, campaign: Campaign, options: { campaignUrl: string; now: Date }): boolean {
+export function fundIfGoalReached(tx: Tx, campaign: Campaign, options: { campaignUrl: string; now: Date }): boolean {
   if (campaign.state !== "open" || !reachesGoal(raisedMinor(tx, campaign.id), campaign.goalMinor)) return false;
   const moved = tx
     .update(campaigns)
@@ -201,6 +202,7 @@ function fundIfGoalReached(tx: Tx, campaign: Campaign, options: { campaignUrl: s
     .where(and(eq(campaigns.id, campaign.id), eq(campaigns.state, "open")))
     .run();
   if (moved.changes !== 1) return false;
+  materialiseJobs(tx, campaign.id);
 
   const backers = tx
     .selectDistinct({ id: users.id, email: users.email, name: users.name })

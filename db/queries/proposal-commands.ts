@@ -14,8 +14,6 @@ import type { ProposalDraftInput, ProposalSubmissionInput } from "@/lib/validati
 import type { Db } from "../client";
 import {
   labSettings,
-  membershipPlans,
-  memberships,
   proposalFollowers,
   proposals,
   proposalVotes,
@@ -23,6 +21,7 @@ import {
   users,
   type Proposal,
 } from "../schema";
+import { memberPerks } from "./memberships";
 import { enqueueMail } from "./outbox";
 
 type Tx = Parameters<Parameters<Db["transaction"]>[0]>[0];
@@ -172,21 +171,9 @@ function recountVotes(tx: Tx, proposalIds: readonly string[]): void {
   }
 }
 
-/** The member's monthly allowance from their live membership's plan; 0 for non-members. */
+/** The member's monthly allowance from their plan while the membership gives perks; 0 otherwise. */
 function monthlyAllowance(tx: Tx | Db, userId: string, now: Date): number {
-  const row = tx
-    .select({ votes: membershipPlans.monthlyVotes })
-    .from(memberships)
-    .innerJoin(membershipPlans, eq(membershipPlans.code, memberships.planCode))
-    .where(
-      and(
-        eq(memberships.userId, userId),
-        inArray(memberships.status, ["active", "past_due"]),
-        sql`${memberships.currentPeriodEnd} > ${now.getTime()}`,
-      ),
-    )
-    .get();
-  return row?.votes ?? 0;
+  return memberPerks(tx, userId, now)?.monthlyVotes ?? 0;
 }
 
 function labTimeZone(tx: Tx | Db): string {

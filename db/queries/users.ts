@@ -1,22 +1,11 @@
-import { and, eq, gt, inArray } from "drizzle-orm";
+import { eq } from "drizzle-orm";
 import type { Db } from "../client";
-import { memberships, users, type StoredRole } from "../schema";
+import { users, type StoredRole } from "../schema";
+import { memberPerks } from "./memberships";
 
-/** Active means paid up: status active (or past_due inside the grace of the current period). */
+/** A member right now: an active Filament Club membership inside its paid period (db/queries/memberships.ts). */
 export function hasActiveMembership(db: Db, userId: string, now: Date): boolean {
-  const row = db
-    .select({ id: memberships.id })
-    .from(memberships)
-    .where(
-      and(
-        eq(memberships.userId, userId),
-        inArray(memberships.status, ["active", "past_due"]),
-        gt(memberships.currentPeriodEnd, now),
-      ),
-    )
-    .limit(1)
-    .get();
-  return row !== undefined;
+  return memberPerks(db, userId, now) !== null;
 }
 
 export function findUserByEmail(db: Db, email: string) {

@@ -14,14 +14,16 @@ function readPort(name: string, fallback: number): number {
 const smtpPort = readPort("SMTP_PORT", 3001);
 const httpPort = readPort("INBOX_PORT", 3002);
 const storePath = process.env.INBOX_STORE || undefined;
+const dedupeByMessageId = process.env.INBOX_DEDUPE_MESSAGE_ID === "1";
 
-const inbox = await startFakeInbox({ smtpPort, httpPort, storePath }).catch((error: unknown) => {
+const inbox = await startFakeInbox({ smtpPort, httpPort, storePath, dedupeByMessageId }).catch((error: unknown) => {
   console.error(error instanceof Error ? error.message : error);
   return process.exit(1);
 });
 
 console.log(`Fake inbox: ${inbox.url}  (SMTP on 127.0.0.1:${inbox.smtpPort})`);
 if (storePath) console.log(`Keeping mail in ${storePath}`);
+if (dedupeByMessageId) console.log("Repeated Message-IDs are accepted but not stored (INBOX_DEDUPE_MESSAGE_ID=1)");
 
 let stopping = false;
 for (const signal of ["SIGINT", "SIGTERM"] as const) {

@@ -1,12 +1,16 @@
 import { createServer, type IncomingMessage, type Server, type ServerResponse } from "node:http";
 import { renderInboxPage, renderMessagePage, renderNotFoundPage } from "./html-pages";
 import type { MessageStore } from "./message-store";
+import type { ReceptionStats } from "./receptions";
 import type { MessageFilter } from "./types";
 
 export interface HttpServerOptions {
   store: MessageStore;
   /** Shown on the empty inbox page; a function because the SMTP port is only known once it listens. */
   smtpAddress: () => string;
+  receptions: () => ReceptionStats;
+  /** Empties the store and the reception counts. */
+  clear: () => void;
 }
 
 // Rendering 20,000 rows helps nobody; the JSON API still returns everything.
@@ -43,7 +47,7 @@ export function createHttpServer(options: HttpServerOptions): Server {
   });
 }
 
-function route(request: IncomingMessage, response: ServerResponse, { store, smtpAddress }: HttpServerOptions): void {
+function route(request: IncomingMessage, response: ServerResponse, { store, smtpAddress, receptions, clear }: HttpServerOptions): void {
   const url = new URL(request.url ?? "/", "http://localhost");
   const method = request.method === "HEAD" ? "GET" : (request.method ?? "GET");
   const path = url.pathname;
@@ -58,7 +62,7 @@ function route(request: IncomingMessage, response: ServerResponse, { store, smtp
   if (path === "/clear") {
     if (method !== "POST") return methodNotAllowed(response, "POST");
     request.resume();
-    store.clear();
+    clear();
     response.writeHead(303, { location: "/", "cache-control": "no-store" }).end();
     return;
   }
@@ -79,10 +83,15 @@ function route(request: IncomingMessage, response: ServerResponse, { store, smtp
   if (path === "/api/messages") {
     if (method === "GET") return sendJson(response, 200, store.list(readFilter(url)));
     if (method === "DELETE") {
-      store.clear();
+      clear();
       return sendJson(response, 200, { ok: true });
     }
     return methodNotAllowed(response, "GET, DELETE");
+  }
+
+  if (path === "/api/receptions") {
+    if (method !== "GET") return methodNotAllowed(response, "GET");
+    return sendJson(response, 200, receptions());
   }
 
   if (path === "/api/messages/latest") {

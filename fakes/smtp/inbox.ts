@@ -2,10 +2,12 @@ import type { Server as HttpServer } from "node:http";
 import type { AddressInfo, Server as NetServer } from "node:net";
 import { createHttpServer } from "./http-server";
 import { MessageStore } from "./message-store";
+import { ReceptionLog, type ReceptionStats } from "./receptions";
 import { createSmtpReceiver } from "./smtp-receiver";
 import type { StoredMessage } from "./types";
 
 export type { MessageFilter, StoredAttachment, StoredMessage } from "./types";
+export type { ReceptionStats } from "./receptions";
 
 export interface FakeInboxOptions {
   /** 0 picks a free port; the FakeInbox reports the real one. */
@@ -20,6 +22,12 @@ export interface FakeInboxOptions {
   maxMessages?: number;
   /** Bigger messages are rejected with SMTP 552. Defaults to 25 MB. */
   maxMessageBytes?: number;
+  /**
+   * Behave like a receiving system that drops repeated Message-IDs: a message whose Message-ID
+   * was received before is still accepted (250) but not stored again. Off by default, so the
+   * inbox shows exactly what was sent; `receptions()` counts every acceptance either way.
+   */
+  dedupeByMessageId?: boolean;
 }
 
 export interface FakeInbox {
@@ -29,6 +37,9 @@ export interface FakeInbox {
   url: string;
   /** Newest first. */
   messages(): StoredMessage[];
+  /** What SMTP accepted, counted before any duplicate suppression. */
+  receptions(): ReceptionStats;
+  /** Empties the inbox and the reception counts. */
   clear(): void;
   /** Stops both servers and writes the store file. Safe to call more than once. */
   close(): Promise<void>;
@@ -43,6 +54,7 @@ export async function startFakeInbox(options: FakeInboxOptions): Promise<FakeInb
   const logError = options.quiet ? () => {} : (line: string) => console.error(`[fake-inbox] ${line}`);
 
   let smtpListening = false;
+  const receptions = new ReceptionLog();
   const store = await MessageStore.open({
     filePath: options.storePath,
     maxMessages: options.maxMessages ?? DEFAULT_MAX_MESSAGES,
@@ -52,6 +64,13 @@ export async function startFakeInbox(options: FakeInboxOptions): Promise<FakeInb
   const smtp = createSmtpReceiver({
     maxMessageBytes: options.maxMessageBytes ?? DEFAULT_MAX_MESSAGE_BYTES,
     onMessage: (input) => {
+      const messageId = input.headers["message-id"];
+      const timesReceived = receptions.record(messageId);
+      if (options.dedupeByMessageId && timesReceived > 1) {
+        receptions.noteSuppressed();
+        log(`duplicate ${messageId} (received ${timesReceived} times) accepted but not stored`);
+        return;
+      }
       const message = store.add(input);
       log(`#${message.id} to ${(message.envelope.to.join(", ") || message.to.join(", ")) || "(nobody)"}: ${message.subject}`);
     },
@@ -61,7 +80,11 @@ export async function startFakeInbox(options: FakeInboxOptions): Promise<FakeInb
     },
   });
   let smtpPort = options.smtpPort;
-  const http = createHttpServer({ store, smtpAddress: () => `${host}:${smtpPort}` });
+  const clearAll = () => {
+    store.clear();
+    receptions.clear();
+  };
+  const http = createHttpServer({ store, smtpAddress: () => `${host}:${smtpPort}`, receptions: () => receptions.stats(), clear: clearAll });
 
   try {
     smtpPort = await listen(smtp.server, options.smtpPort, host, "SMTP");
@@ -74,7 +97,8 @@ export async function startFakeInbox(options: FakeInboxOptions): Promise<FakeInb
       httpPort,
       url: `http://${browserHost(host)}:${httpPort}`,
       messages: () => store.list(),
-      clear: () => store.clear(),
+      receptions: () => receptions.stats(),
+      clear: clearAll,
       close: () => {
         closing ??= Promise.all([closeSmtp(smtp), closeHttp(http)]).then(() => store.close());
         return closing;

@@ -20,6 +20,8 @@ export function createSmtpReceiver(options: SmtpReceiverOptions): SMTPServer {
     logger: false,
     // Idle pooled clients would otherwise hold close() open for the 30 s default.
     closeTimeout: 1_000,
+    // Passed on to net.createServer: answer each command at once instead of waiting on delayed ACKs.
+    ...({ noDelay: true } as object),
     onData(stream, session, callback) {
       receive(stream, session).then(
         (message) => {

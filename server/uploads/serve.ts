@@ -1,6 +1,7 @@
 import "server-only";
 import { Readable } from "node:stream";
 import type { Db } from "@/db/client";
+import { isInPublishedReport } from "@/db/queries/reports";
 import { findUploadForServing } from "@/db/queries/uploads";
 import type { Upload } from "@/db/schema";
 import { hasRole } from "@/lib/roles";
@@ -38,7 +39,9 @@ export async function serveUpload(db: Db, request: Request, id: string, viewer: 
   const found = findUploadForServing(db, id);
   if (!found) throw new HttpError(404, "not_found", "No such upload.");
   const { upload, proposal } = found;
-  const access = canRead(upload, proposal, viewer);
+  // A photo in a published report is public like the report itself.
+  const granted = canRead(upload, proposal, viewer);
+  const access = granted !== "yes" && isInPublishedReport(db, upload.id) ? "yes" : granted;
   if (access === "sign_in") throw new HttpError(401, "unauthenticated", "Sign in to see this file.");
   if (access === "no") throw new HttpError(403, "forbidden", "Only the person who uploaded this file and the lab can see it until its proposal is submitted.");
 

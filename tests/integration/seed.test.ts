@@ -189,7 +189,7 @@ describe("seedDemo", () => {
       expect(all(temp, "select id from ledger_entry where currency <> 'USD'")).toHaveLength(0);
     });
 
-    it("gives every campaign a test plan with one reference variant, and jobs only to queued/printing/reported ones", () => {
+    it("gives every campaign a test plan with one reference variant, and jobs only to funded/queued/printing/reported ones", () => {
       const plans = all<{ state: string; pieces: number; variants: number; refs: number; jobs: number; expected: number }>(
         temp,
         `select c.state,
@@ -206,7 +206,7 @@ describe("seedDemo", () => {
         expect(plan.pieces).toBeGreaterThan(0);
         expect(plan.variants).toBeGreaterThanOrEqual(2);
         expect(plan.refs).toBe(1);
-        expect(plan.jobs).toBe(["queued", "printing", "reported"].includes(plan.state) ? plan.expected : 0);
+        expect(plan.jobs).toBe(["funded", "queued", "printing", "reported"].includes(plan.state) ? plan.expected : 0);
       }
       const jobStates = all<{ state: string }>(temp, "select distinct state from job").map((j) => j.state).sort();
       expect(jobStates).toEqual(["done", "running", "scheduled"]);

@@ -1,6 +1,6 @@
 import type { Metadata } from "next";
 import Link from "next/link";
-import { FileText, HandCoins, LogOut } from "lucide";
+import { BadgeCheck, FileText, HandCoins, LogOut, Mail } from "lucide";
 import { Icon } from "@/components/ui/icon";
 import { signOutAction } from "@/app/(auth)/sign-in/actions";
 import { Button } from "@/components/ui/button";
@@ -29,6 +29,12 @@ export default async function AccountPage() {
         </Link>
         <Link href="/account/pledges" className="inline-flex items-center gap-2 text-sm font-medium text-teal underline">
           <Icon node={HandCoins} className="h-4 w-4" /> My pledges
+        </Link>
+        <Link href="/account/membership" className="inline-flex items-center gap-2 text-sm font-medium text-teal underline">
+          <Icon node={BadgeCheck} className="h-4 w-4" /> My Filament Club membership
+        </Link>
+        <Link href="/account/email" className="inline-flex items-center gap-2 text-sm font-medium text-teal underline">
+          <Icon node={Mail} className="h-4 w-4" /> E-mail settings
         </Link>
         <form action={signOutAction}>
           <Button type="submit" variant="secondary">

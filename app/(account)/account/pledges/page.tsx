@@ -64,7 +64,12 @@ export default async function MyPledgesPage() {
                     <span className={cn("rounded-md px-2 py-0.5 text-xs font-medium", stateStyles[row.state])}>{pledgeStateLabels[row.state]}</span>
                   </td>
                   <td className="px-4 py-2 text-muted">{formatDate(row.paidAt ?? row.createdAt, timeZone)}</td>
-                  <td className="px-4 py-2 text-muted">{row.refundedAt ? formatDate(row.refundedAt, timeZone) : "—"}</td>
+                  <td className="px-4 py-2 text-muted" data-testid="own-pledge-refund">
+                    {row.refundedAt ? formatDate(row.refundedAt, timeZone) : row.state === "paid" && (row.campaignState === "lapsed" || row.campaignState === "withdrawn") ? "Refund in progress" : "—"}
+                    {row.refundedAt && (row.campaignState === "lapsed" || row.campaignState === "withdrawn") ? (
+                      <span className="block text-xs">{row.campaignState === "lapsed" ? "Campaign lapsed" : "Campaign withdrawn"}</span>
+                    ) : null}
+                  </td>
                 </tr>
               ))}
             </tbody>

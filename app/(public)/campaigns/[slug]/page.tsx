@@ -6,9 +6,11 @@ import { Icon } from "@/components/ui/icon";
 import { CampaignGoalBreakdown } from "@/components/campaign-goal-breakdown";
 import { CampaignStateBadge } from "@/components/campaign-state-badge";
 import { PledgeBox } from "@/components/pledges/pledge-box";
+import { CampaignReportAndNotes } from "@/components/reports/campaign-report-notes";
 import { Button } from "@/components/ui/button";
 import { Card } from "@/components/ui/card";
 import { ProgressBar } from "@/components/ui/progress-bar";
+import { CampaignQueueProgress } from "@/components/queue/campaign-queue-progress";
 import { getDb } from "@/db";
 import { getCampaignBySlug, getLabSettings, listPublicPledges } from "@/db/queries/campaigns";
 import { findOwnPledgeBySession } from "@/db/queries/pledges";
@@ -52,6 +54,25 @@ export default async function CampaignPage({ params, searchParams }: Props) {
           <div><CampaignStateBadge state={campaign.state} /></div>
           <h1 className="text-3xl font-bold tracking-tight">{campaign.title}</h1>
           <p className="text-lg text-muted">{campaign.summary}</p>
+          {campaign.state === "lapsed" || campaign.state === "withdrawn" ? (
+            <div role="status" data-testid="campaign-closed" className="rounded-lg border border-line bg-slate-soft/60 p-3 text-sm">
+              {campaign.state === "lapsed" ? (
+                <p>
+                  This campaign did not reach its goal by its deadline
+                  {campaign.closedAt ? ` and lapsed on ${formatDate(campaign.closedAt, settings.timeZone)}` : ""}. Goal-or-refund: every
+                  paid pledge is refunded in full.
+                </p>
+              ) : (
+                <>
+                  <p>
+                    The lab withdrew this campaign{campaign.closedAt ? ` on ${formatDate(campaign.closedAt, settings.timeZone)}` : ""}. Every
+                    paid pledge is refunded in full.
+                  </p>
+                  {campaign.withdrawReason ? <p className="mt-1">The lab&apos;s reason: {campaign.withdrawReason}</p> : null}
+                </>
+              )}
+            </div>
+          ) : null}
         </header>
 
         <section aria-labelledby="plan-heading">
@@ -126,6 +147,8 @@ export default async function CampaignPage({ params, searchParams }: Props) {
           </section>
         ) : null}
 
+        <CampaignReportAndNotes campaign={campaign} viewerRole={viewer?.role ?? null} timeZone={settings.timeZone} />
+
         <section aria-labelledby="pledges-heading">
           <h2 id="pledges-heading" className="mb-3 text-xl font-semibold">Pledges so far</h2>
           {pledges.length === 0 ? (
@@ -192,6 +215,7 @@ export default async function CampaignPage({ params, searchParams }: Props) {
             refunded in full.
           </p>
         </Card>
+        <CampaignQueueProgress campaign={campaign} timeZone={settings.timeZone} />
         {takesPledges ? (
           <Card className="flex flex-col gap-3">
             {viewer ? (

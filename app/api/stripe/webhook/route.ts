@@ -1,9 +1,13 @@
 import { NextResponse } from "next/server";
 import Stripe from "stripe";
 import { getDb } from "@/db";
+import { groupCommitFor } from "@/db/group-commit";
+import { applyMembershipEvent } from "@/db/queries/memberships";
 import { applyPledgeEvent } from "@/db/queries/pledges";
 import { recordProcessorEvent } from "@/db/queries/processor-events";
+import { applyRefundEvent } from "@/db/queries/refunds";
 import { env } from "@/lib/env";
+import { refreshQueue } from "@/server/queue-refresh";
 import { getStripe } from "@/server/stripe";
 
 export const dynamic = "force-dynamic";
@@ -20,7 +24,9 @@ function badRequest(code: string, message: string) {
  * verifies it with the official SDK, and records each event id once, so replays and duplicates
  * change nothing. Effects per event type are dispatched inside the same transaction, so an event
  * is either recorded with all its effects or not at all (and the processor's retry runs them):
- * Checkout events move pledges (db/queries/pledges.ts `applyPledgeEvent`); every other type, and
+ * Checkout events move pledges (db/queries/pledges.ts `applyPledgeEvent`), refund events record
+ * goal-or-refund refunds (db/queries/refunds.ts `applyRefundEvent`), subscription sessions, invoices
+ * and subscriptions move Filament Club memberships (db/queries/memberships.ts `applyMembershipEvent`); every other type, and
  * sessions that are not a pledge's, are acknowledged and ignored.
  */
 export async function POST(request: Request) {
@@ -34,14 +40,16 @@ export async function POST(request: Request) {
     const message = error instanceof Error ? error.message : "The signature does not verify.";
     return badRequest("invalid_signature", message);
   }
-  const db = getDb();
-  const isNew = db.transaction(
-    (tx) => {
-      if (!recordProcessorEvent(tx, event)) return false;
-      applyPledgeEvent(tx, event, { appUrl: env.appUrl });
-      return true;
-    },
-    { behavior: "immediate" },
-  );
+  // Events verified at the same moment share one durable commit (db/group-commit.ts).
+  let funded = false;
+  const isNew = await groupCommitFor(getDb())((tx) => {
+    if (!recordProcessorEvent(tx, event)) return false;
+    funded = applyPledgeEvent(tx, event, { appUrl: env.appUrl })?.funded === true;
+    applyMembershipEvent(tx, event, { appUrl: env.appUrl });
+    applyRefundEvent(tx, event, { appUrl: env.appUrl });
+    return true;
+  });
+  // The newly funded campaign's jobs were written with it; this places them (and the board catches up if it fails).
+  if (funded) refreshQueue(getDb(), "a new campaign was funded");
   return NextResponse.json({ received: true, duplicate: !isNew });
 }
