@@ -848,8 +848,9 @@ door during a print (ASA fumes).`,
 Two wide-mouth blower ducts against the Wren's stock duct, in PLA at 12 mm³/s and 100 % fan,
 0.2 mm layers, three repeats of four pieces each — 36 prints in all.
 
-## Scorecard
-Scores are 0–10 against the stock duct (5 = same as stock), averaged over three repeats.
+## Ratings behind the scorecard
+Our bench ratings, 0–10 against the stock duct (5 = same as stock), averaged over three repeats; the
+scorecard above condenses them to −2…+2.
 
 | piece | criterion | stock | wide mouth | wide mouth + splitter |
 |---|---|---|---|---|

@@ -144,7 +144,8 @@ export function seedReportExtras(tx: Tx, now: Date, seedId: SeedId, userId: (key
 
 /* ---------- Photos for the published report ---------- */
 
-const VARIANT_TINTS = ["#d9d4c7", "#c7d8d4", "#d4cbe0"];
+/** One light box for every variant: in blind pairs only the print itself may differ. */
+const LIGHT_BOX_EDGE = "#d9d4c7";
 const PIECE_KINDS = ["overhang", "bridge", "block", "plaque"] as const;
 
 /**
@@ -153,7 +154,6 @@ const PIECE_KINDS = ["overhang", "bridge", "block", "plaque"] as const;
  */
 function pieceSvg(kind: (typeof PIECE_KINDS)[number], variantIndex: number, lightIndex: number): string {
   const defect = [1, 0.7, 0.3][variantIndex] ?? 1;
-  const tint = VARIANT_TINTS[variantIndex] ?? "#d9d4c7";
   const light = lightIndex === 0 ? "#f4f2ec" : "#ebe7dc";
   const plastic = "#3f6f8f";
   let shape = "";
@@ -171,7 +171,7 @@ function pieceSvg(kind: (typeof PIECE_KINDS)[number], variantIndex: number, ligh
       .map((i) => `<rect x="${200 + i * 72}" y="250" width="${40 - 14 * defect}" height="100" fill="#2b4f66"/>`)
       .join("")}`;
   }
-  return `<svg xmlns="http://www.w3.org/2000/svg" width="800" height="600"><defs><radialGradient id="g" cx="50%" cy="35%" r="75%"><stop offset="0" stop-color="${light}"/><stop offset="1" stop-color="${tint}"/></radialGradient></defs><rect width="800" height="600" fill="url(#g)"/><ellipse cx="400" cy="520" rx="320" ry="30" fill="#000" opacity="0.08"/>${shape}</svg>`;
+  return `<svg xmlns="http://www.w3.org/2000/svg" width="800" height="600"><defs><radialGradient id="g" cx="50%" cy="35%" r="75%"><stop offset="0" stop-color="${light}"/><stop offset="1" stop-color="${LIGHT_BOX_EDGE}"/></radialGradient></defs><rect width="800" height="600" fill="url(#g)"/><ellipse cx="400" cy="520" rx="320" ry="30" fill="#000" opacity="0.08"/>${shape}</svg>`;
 }
 
 async function storeFile(root: string, bytes: Buffer): Promise<string> {

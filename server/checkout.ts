@@ -1,5 +1,6 @@
 import "server-only";
 import Stripe from "stripe";
+import { asProcessorError } from "@/server/stripe";
 import type { Db } from "@/db/client";
 import { groupCommitFor } from "@/db/group-commit";
 import { attachCheckoutSession, failUnstartedPledge, openPendingPledge } from "@/db/queries/pledges";
@@ -70,7 +71,8 @@ export async function startPledgeCheckout(
   } catch (error) {
     // A refused request will be refused again: that pledge can never be paid. A network failure
     // leaves it pending, and a retry within the reuse window sends the same key.
-    if (error instanceof Stripe.errors.StripeInvalidRequestError || error instanceof Stripe.errors.StripeIdempotencyError) {
+    const refused = asProcessorError(error);
+    if (refused?.type === "StripeInvalidRequestError" || refused?.type === "StripeIdempotencyError") {
       failUnstartedPledge(db, pledge.id);
     }
     console.error(`Checkout Session for pledge ${pledge.id} failed:`, error instanceof Error ? error.message : error);

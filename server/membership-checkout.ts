@@ -1,5 +1,6 @@
 import "server-only";
 import Stripe from "stripe";
+import { asProcessorError } from "@/server/stripe";
 import type { Db } from "@/db/client";
 import {
   applySubscriptionSnapshot,
@@ -37,7 +38,7 @@ function pricing(plan: StoredPlan) {
 }
 
 function isResourceError(error: unknown, code: string): boolean {
-  return error instanceof Stripe.errors.StripeError && error.code === code;
+  return asProcessorError(error)?.code === code;
 }
 
 async function ensurePlanProduct(stripe: Stripe, plan: StoredPlan): Promise<string> {

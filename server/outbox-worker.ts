@@ -68,7 +68,7 @@ async function inParallel<T>(items: readonly T[], limit: number, work: (item: T)
  * cap a fan-out near 200 a second. A group is written within RECORD_DELAY_MS of its first
  * acceptance, so that is also the widest gap between the server's 250 and our record of it.
  */
-export const RECORD_DELAY_MS = 10;
+export const RECORD_DELAY_MS = 20;
 const RECORD_GROUP = 50;
 
 class SentRecorder {

@@ -1,5 +1,6 @@
 import "server-only";
 import Stripe from "stripe";
+import { asProcessorError } from "@/server/stripe";
 import type { Db } from "@/db/client";
 import {
   claimRefundRequests,
@@ -16,6 +17,7 @@ import {
   type ClosedCampaign,
 } from "@/db/queries/refunds";
 import { handleRefundRefusal, refundFactsOf, refundIdempotencyKey } from "@/lib/pledges/refunds";
+import { refreshQueue } from "@/server/queue-refresh";
 
 export type SweepOptions = {
   appUrl: string;
@@ -60,10 +62,11 @@ async function refundOne(db: Db, stripe: Stripe, claim: ClaimedRefund, options: 
       ? await stripe.refunds.retrieve(claim.refundId)
       : await stripe.refunds.create(refundCreateParams(target), { idempotencyKey: refundIdempotencyKey(claim.pledgeId) });
   } catch (error) {
-    if (!(error instanceof Stripe.errors.StripeError)) throw error;
-    const handling = handleRefundRefusal({ statusCode: error.statusCode ?? null, code: error.code ?? null, type: error.type, message: error.message }, intentId);
+    const refused = asProcessorError(error);
+    if (!refused) throw error;
+    const handling = handleRefundRefusal({ statusCode: refused.statusCode ?? null, code: refused.code ?? null, type: refused.type, message: refused.message }, intentId);
     if (handling.kind === "retry") {
-      deferRefundRequest(db, claim.pledgeId, claim.attempts, error.message, now);
+      deferRefundRequest(db, claim.pledgeId, claim.attempts, refused.message, now);
       return "deferred";
     }
     if (handling.kind === "outside_processor") {
@@ -135,7 +138,7 @@ export async function expireOpenCheckouts(db: Db, stripe: Stripe, now: Date): Pr
       await stripe.checkout.sessions.expire(sessionId);
       expired++;
     } catch (error) {
-      if (!(error instanceof Stripe.errors.StripeError)) throw error;
+      if (!asProcessorError(error)) throw error;
     }
   }
   return expired;
@@ -149,6 +152,8 @@ export async function expireOpenCheckouts(db: Db, stripe: Stripe, now: Date): Pr
 export async function runMoneySweep(db: Db, stripe: Stripe, options: SweepOptions): Promise<SweepReport> {
   const now = (options.now ?? (() => new Date()))();
   const closed = closeDueCampaigns(db, { appUrl: options.appUrl, now });
+  // A campaign funded at its deadline has new jobs for the print queue.
+  if (closed.some((campaign) => campaign.outcome === "funded")) refreshQueue(db, null, now);
   const lateRequests = requestLateRefunds(db, now);
   const orphansFailed = failOrphanedPendingPledges(db, now);
   const checkoutsExpired = await expireOpenCheckouts(db, stripe, now);

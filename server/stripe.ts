@@ -25,3 +25,16 @@ export function getStripe(): Stripe {
   }
   return cache.proofbayStripe;
 }
+
+export type ProcessorError = Error & { type: string; statusCode?: number; code?: string };
+
+/**
+ * The SDK's errors by shape rather than `instanceof`: the bundler can load the SDK more than once
+ * (one copy per server chunk), and an error made by one copy is not an instance of another's class.
+ * Every SDK error carries its class name in `type` (e.g. `StripeInvalidRequestError`).
+ */
+export function asProcessorError(error: unknown): ProcessorError | null {
+  if (!(error instanceof Error)) return null;
+  const type = (error as { type?: unknown }).type;
+  return typeof type === "string" && type.startsWith("Stripe") ? (error as ProcessorError) : null;
+}

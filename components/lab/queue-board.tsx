@@ -2,6 +2,7 @@
 
 import { useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
 import { ArrowDown, ArrowUp, Pin, PinOff } from "lucide-react";
+import Link from "next/link";
 import { useState } from "react";
 import { Button } from "@/components/ui/button";
 import type { QueueBoard as QueueBoardData, QueueBoardJob } from "@/db/queries/queue-board";
@@ -92,7 +93,7 @@ export function QueueBoard() {
             <button
               type="button"
               disabled={busy}
-              className="rounded px-1.5 py-0.5 text-[11px] font-semibold text-teal underline-offset-2 hover:underline disabled:opacity-50"
+              className="rounded px-1 py-0.5 text-[11px] font-semibold whitespace-nowrap text-teal underline-offset-2 hover:underline disabled:opacity-50"
               onClick={() => printerAction.mutate({ printerId: printer.id, status: printer.status === "down" ? "available" : "down" })}
             >
               {printer.status === "down" ? "Mark up" : "Mark down"}
@@ -193,6 +194,9 @@ function JobPanel({ job, board, busy, onAction, onClose }: PanelProps) {
             {` · about ${job.estimatedHours.toFixed(1)} h on the plan's printer`}
             {job.state === "running" ? " · printing now" : ""}
           </p>
+          <Link href={`/lab/jobs/${job.id}`} prefetch={false} className="text-sm font-medium text-teal hover:underline">
+            Run log for this job
+          </Link>
         </div>
         <Button variant="quiet" size="sm" onClick={onClose}>
           Close

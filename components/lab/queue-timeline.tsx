@@ -1,16 +1,17 @@
 "use client";
 
 import { Pin } from "lucide-react";
+import { useEffect, useRef } from "react";
 import type { QueueBoard, QueueBoardJob } from "@/db/queries/queue-board";
 import { cn } from "@/lib/cn";
 import { dateTimeFormat } from "@/lib/intl-cache";
 
 const HOUR_MS = 3_600_000;
 /** Pixels per hour: "hours" shows each print with its label, "days" a week or more at a glance. */
-export const TIMELINE_SCALES = { hours: 60, days: 12 } as const;
+export const TIMELINE_SCALES = { hours: 32, days: 8 } as const;
 export type TimelineScale = keyof typeof TIMELINE_SCALES;
 const ROW_HEIGHT = 56;
-const LABEL_WIDTH = 168;
+const LABEL_CLASS = "sticky left-0 z-20 w-36 shrink-0 border-r border-line bg-surface px-2 sm:w-44 sm:px-3";
 const HATCH = "repeating-linear-gradient(135deg, rgb(0 0 0 / 0.07) 0 6px, transparent 6px 12px)";
 
 /** Bar colours by campaign, from the site palette; a campaign keeps its colour (funded order). */
@@ -46,15 +47,24 @@ export function QueueTimeline({ board, scale, selectedJobId, onSelect, renderPri
   const { days, quarters } = dayMarks(range.start, range.end, board.timeZone);
   const dayLabel = dateTimeFormat("en-US", { timeZone: board.timeZone, weekday: "short", month: "short", day: "numeric" });
   const timeLabel = dateTimeFormat("en-US", { timeZone: board.timeZone, hour: "numeric", minute: "2-digit" });
+  const nowLine = <div aria-hidden className="pointer-events-none absolute inset-y-0 z-10 w-0.5 bg-ember" style={{ left: x(board.now) }} data-now-line />;
+
+  // Open on the present: an hour of the past stays in view, the rest is a scroll away.
+  const scroller = useRef<HTMLDivElement>(null);
+  const nowOffset = x(board.now);
+  useEffect(() => {
+    if (scroller.current) scroller.current.scrollLeft = Math.max(0, nowOffset - pxPerHour);
+    // Only when the scale changes, not on every refresh (the host may have scrolled).
+    // eslint-disable-next-line react-hooks/exhaustive-deps
+  }, [scale]);
 
   return (
-    <div className="overflow-x-auto rounded-card border border-line bg-surface" role="region" aria-label="Queue timeline" tabIndex={0}>
-      <div className="relative" style={{ width: LABEL_WIDTH + width }}>
+    <div ref={scroller} className="overflow-x-auto rounded-card border border-line bg-surface" role="region" aria-label="Queue timeline" tabIndex={0}>
+      <div className="w-max min-w-full">
         <div className="flex border-b border-line text-xs text-muted" style={{ height: 28 }}>
-          <div className="sticky left-0 z-20 shrink-0 border-r border-line bg-surface px-3 py-1.5 font-semibold" style={{ width: LABEL_WIDTH }}>
-            Printer
-          </div>
-          <div className="relative" style={{ width }}>
+          <div className={cn(LABEL_CLASS, "py-1.5 font-semibold")}>Printer</div>
+          <div className="relative overflow-hidden" style={{ width }}>
+            {nowLine}
             {scale === "hours"
               ? quarters.map((mark) => (
                   <span key={mark} className="absolute top-0 h-full border-l border-line/70 pl-1 pt-1.5 whitespace-nowrap text-[11px]" style={{ left: x(mark) }}>
@@ -74,11 +84,11 @@ export function QueueTimeline({ board, scale, selectedJobId, onSelect, renderPri
           const lane = board.jobs.filter((job) => job.printerId === printer.id && job.start !== null && job.end !== null);
           return (
             <div key={printer.id} className="flex border-b border-line last:border-b-0" style={{ height: ROW_HEIGHT }} data-printer-row={printer.id}>
-              <div className="sticky left-0 z-20 flex shrink-0 flex-col justify-center gap-1 border-r border-line bg-surface px-3" style={{ width: LABEL_WIDTH }}>
+              <div className={cn(LABEL_CLASS, "flex flex-col justify-center gap-1")}>
                 <span className="truncate text-sm font-semibold" title={`${printer.name} (${printer.model})`}>
                   {printer.name}
                 </span>
-                <span className="flex items-center gap-2">
+                <span className="flex items-center gap-1 whitespace-nowrap sm:gap-2">
                   <span
                     className={cn(
                       "rounded px-1.5 py-0.5 text-[11px] font-semibold",
@@ -91,6 +101,7 @@ export function QueueTimeline({ board, scale, selectedJobId, onSelect, renderPri
                 </span>
               </div>
               <div className="relative" style={{ width }}>
+                {nowLine}
                 {board.startWindows.map((window) => (
                   <div key={window.start} aria-hidden className="absolute inset-y-0 bg-teal-soft/60" style={{ left: x(window.start), width: x(window.end) - x(window.start) }} />
                 ))}
@@ -128,13 +139,6 @@ export function QueueTimeline({ board, scale, selectedJobId, onSelect, renderPri
             </div>
           );
         })}
-
-        <div
-          aria-hidden
-          className="pointer-events-none absolute top-0 bottom-0 z-10 w-0.5 bg-ember"
-          style={{ left: LABEL_WIDTH + x(board.now) }}
-          data-now-line
-        />
       </div>
     </div>
   );
@@ -163,7 +167,7 @@ function JobBar({ job, left, width, changeoverWidth, tone, campaignTitle, when, 
         selected ? "ring-2 ring-ink ring-offset-1" : "hover:brightness-110",
         job.state === "running" && "outline-2 outline-dashed outline-offset-1 outline-ink/60",
       )}
-      style={{ left, width: Math.max(width, 3) }}
+      style={{ left, width: Math.max(width - 1, 3) }}
       title={label}
       aria-label={label}
       aria-pressed={selected}

@@ -22,7 +22,7 @@ export function BlindPairRanking({ campaignId, judgeHref }: { campaignId: string
         <>
           <p className="text-sm text-muted">
             From {ranking.totalVotes} blind votes on photo pairs of the same piece. Bars show each variant&apos;s chance of being
-            picked over a variant of average strength; whiskers are 95 % intervals from {ranking.replicates} resamples of the votes.
+            picked over a variant of average strength; whiskers are 95 % intervals from {ranking.replicates.toLocaleString("en-US")} resamples of the votes.
             &ldquo;Can&apos;t tell&rdquo; counts as half a vote for each side.
           </p>
           <BlindPairChart rows={ranking.variants.map((v) => ({ name: v.name, chance: v.chancePercent, low: v.lowPercent, high: v.highPercent, isReference: v.isReference }))} />

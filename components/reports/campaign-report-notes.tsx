@@ -37,9 +37,14 @@ export function CampaignReportAndNotes({
           <p className="flex items-center gap-2 font-medium">
             <Icon node={FileText} className="h-5 w-5 text-plum" /> The lab has published its report on this test.
           </p>
-          <Link href={`/reports/${campaign.slug}`} className="font-semibold text-teal hover:underline">
-            Read the report
-          </Link>
+          <span className="flex flex-wrap gap-4">
+            <Link href={`/reports/${campaign.slug}`} className="font-semibold text-teal hover:underline">
+              Read the report
+            </Link>
+            <Link href={`/campaigns/${campaign.slug}/judge`} prefetch={false} className="font-semibold text-teal hover:underline">
+              Judge blind pairs (backers)
+            </Link>
+          </span>
         </Card>
       ) : null}
       {isHost && canHaveReport(campaign.state) && !published ? (

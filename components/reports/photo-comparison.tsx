@@ -29,7 +29,7 @@ export function PhotoComparison({
   if (withPhotos.length === 0) return <p className="text-muted">No photos in this report yet.</p>;
 
   return (
-    <div className="flex flex-col gap-4">
+    <div className="flex max-w-4xl flex-col gap-4">
       <div className="flex flex-wrap gap-4 text-sm">
         <VariantPicker label="Left" value={left} onChange={setLeft} variants={variants} />
         <VariantPicker label="Right" value={right} onChange={setRight} variants={variants} />

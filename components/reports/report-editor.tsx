@@ -8,7 +8,7 @@ import { uploadWithProgress } from "@/components/estimate/upload-with-progress";
 import { Button } from "@/components/ui/button";
 import { Card } from "@/components/ui/card";
 import { cn } from "@/lib/cn";
-import { REPORT_CRITERIA, SCORE_LABELS, SCORE_MAX, SCORE_MIN, type CriterionId } from "@/lib/reports/criteria";
+import { formatScore, REPORT_CRITERIA, SCORE_LABELS, SCORE_MAX, SCORE_MIN, type CriterionId } from "@/lib/reports/criteria";
 import { uploadThumbnailUrl } from "@/lib/uploads/api";
 import { REPORT_BODY_MAX, REPORT_SUMMARY_MAX, type ReportDraftValues } from "@/lib/validation/report";
 import { ReportMarkdown } from "./report-markdown";
@@ -208,8 +208,8 @@ export function ReportEditor({ campaign, pieces, variants, initial, runCostText,
       <Card className="flex flex-col gap-3">
         <h2 className="text-lg font-semibold">Scorecard</h2>
         <p className="text-sm text-muted">
-          Each variant against the reference{reference ? ` (${reference.name})` : ""}: {SCORE_MIN} {SCORE_LABELS[SCORE_MIN]}, 0 {SCORE_LABELS[0]}, +{SCORE_MAX}{" "}
-          {SCORE_LABELS[SCORE_MAX]}. Leave a cell unscored when the run did not show it.
+          Each variant against the reference variant{reference ? `, ${reference.name}` : ""}. {formatScore(SCORE_MIN)} {SCORE_LABELS[SCORE_MIN]}, 0{" "}
+          {SCORE_LABELS[0]}, {formatScore(SCORE_MAX)} {SCORE_LABELS[SCORE_MAX]}. Leave a cell unscored when the run did not show it.
         </p>
         <div className="overflow-x-auto">
           <table className="w-full text-sm">
@@ -241,7 +241,7 @@ export function ReportEditor({ campaign, pieces, variants, initial, runCostText,
                           <option value="">not scored</option>
                           {scoreOptions.map((value) => (
                             <option key={value} value={value}>
-                              {value > 0 ? `+${value}` : value} {SCORE_LABELS[value]}
+                              {formatScore(value)} {SCORE_LABELS[value]}
                             </option>
                           ))}
                         </select>

@@ -163,7 +163,7 @@ export function loadQueueState(tx: Tx | Db, now: number): QueueState {
 
   const openRuns = new Map(
     tx
-      .select({ jobId: jobRuns.jobId, printerId: jobRuns.printerId, startedAt: jobRuns.startedAt })
+      .select({ jobId: jobRuns.jobId, printerId: jobRuns.printerId, startedAt: jobRuns.startedAt, estimatedHours: jobRuns.estimatedHoursAtStart })
       .from(jobRuns)
       .where(isNull(jobRuns.outcome))
       .all()
@@ -211,7 +211,7 @@ export function loadQueueState(tx: Tx | Db, now: number): QueueState {
       needsEnclosure: isMaterialId(job.material) ? getMaterial(job.material).needsEnclosure : false,
       sizeMm: { x: job.sizeXmm ?? 0, y: job.sizeYmm ?? 0, z: job.sizeZmm ?? 0 },
       // A running job keeps the hours it was started with on its printer.
-      hoursByPrinter: job.state === "running" && runningOn ? { ...hoursByPrinter, [runningOn]: job.estimatedHours } : hoursByPrinter,
+      hoursByPrinter: job.state === "running" && runningOn ? { ...hoursByPrinter, [runningOn]: run?.estimatedHours ?? job.estimatedHours } : hoursByPrinter,
       fundedAt: (job.fundedAt ?? job.openedAt).getTime(),
       pinned: job.pinned,
       position: job.position,
@@ -322,6 +322,7 @@ export function recomputeQueueInTx(tx: Tx, options: RecomputeOptions): Recompute
   }
 
   const dates = new Map(Object.entries(resultDates(schedule, state.input.jobs, state.settings.reportPrepHours)));
+  for (const [campaignId, date] of printedCampaignDates(tx, state.settings.reportPrepHours)) if (!dates.has(campaignId)) dates.set(campaignId, date);
   const campaignRows = dates.size
     ? tx
         .select({
@@ -374,6 +375,22 @@ function countJobs(input: ScheduleInput, campaignId: string): number {
   let count = 0;
   for (const job of input.jobs) if (job.campaignId === campaignId) count++;
   return count;
+}
+
+/** Campaigns whose every job is printed: the last run's finish plus report preparation. */
+function printedCampaignDates(tx: Tx, reportPrepHours: number): Map<string, number> {
+  const rows = tx
+    .select({ campaignId: jobs.campaignId, lastFinish: sql<number | null>`max(${jobRuns.finishedAt})` })
+    .from(jobs)
+    .innerJoin(campaigns, eq(campaigns.id, jobs.campaignId))
+    .leftJoin(jobRuns, and(eq(jobRuns.jobId, jobs.id), eq(jobRuns.outcome, "done")))
+    .where(inArray(campaigns.state, [...QUEUED_CAMPAIGN_STATES]))
+    .groupBy(jobs.campaignId)
+    .having(sql`sum(case when ${jobs.state} = 'done' then 0 else 1 end) = 0`)
+    .all();
+  const dates = new Map<string, number>();
+  for (const row of rows) if (row.lastFinish !== null) dates.set(row.campaignId, Number(row.lastFinish) + reportPrepHours * 3_600_000);
+  return dates;
 }
 
 /** Dedupe keys: one "scheduled" mail per backer per campaign, one "slipped" mail per backer per announced date. */

@@ -100,7 +100,7 @@ export function closeDueCampaigns(db: Db, context: RefundContext): ClosedCampaig
   return closed;
 }
 
-export type WithdrawnCampaign = { campaign: Campaign; refundsRequested: number; fundReturnedMinor: number };
+export type WithdrawnCampaign = { campaign: Campaign; previousState: Campaign["state"]; refundsRequested: number; fundReturnedMinor: number };
 
 /**
  * A host withdraws an open or funded campaign (409 once printing has begun or it is closed),
@@ -124,6 +124,7 @@ export function withdrawCampaign(db: Db, input: { campaignId: string; reason: st
       if (!moved) throw new RuleViolation(409, "not_withdrawable", "This campaign changed state meanwhile; reload the page.");
       return {
         campaign: moved,
+        previousState: campaign.state,
         refundsRequested: requestRefunds(tx, campaign.id, "withdrawn", now),
         fundReturnedMinor: returnLabFundAllocation(tx, campaign.id, now),
       };

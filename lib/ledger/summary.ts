@@ -92,26 +92,40 @@ export function labDateTime(instant: Date, timeZone: string): string {
   return `${field("year")}-${field("month")}-${field("day")} ${field("hour")}:${field("minute")}`;
 }
 
+/**
+ * Cash in and out (payments, refunds, fees) apart from lab-fund transfers: an allocation moves money
+ * from the fund to a campaign inside the lab, so it is neither income nor spending.
+ */
 export type LedgerTotal = {
   currency: string;
+  /** Cash received: pledge and membership payments. */
   inMinor: number;
+  /** Cash paid back or out: refunds and recorded fees (negative). */
   outMinor: number;
+  /** inMinor + outMinor. */
   netMinor: number;
+  /** Lab-fund money moved to campaigns: allocations less returns (positive = support given). */
+  labFundMinor: number;
   estimatedFeesMinor: number;
   movements: number;
 };
+
+const TRANSFER_KINDS: readonly LedgerKind[] = ["fund_allocation", "fund_release"];
 
 export type CampaignTotal = LedgerTotal & { campaignId: string | null; campaignTitle: string | null };
 export type MonthTotal = LedgerTotal & { month: string };
 
 function emptyTotal(currency: string): LedgerTotal {
-  return { currency, inMinor: 0, outMinor: 0, netMinor: 0, estimatedFeesMinor: 0, movements: 0 };
+  return { currency, inMinor: 0, outMinor: 0, netMinor: 0, labFundMinor: 0, estimatedFeesMinor: 0, movements: 0 };
 }
 
 function add(total: LedgerTotal, row: LedgerRow, fee: FeeRate): void {
-  if (row.amountMinor >= 0) total.inMinor += row.amountMinor;
-  else total.outMinor += row.amountMinor;
-  total.netMinor += row.amountMinor;
+  if (TRANSFER_KINDS.includes(row.kind)) total.labFundMinor -= row.amountMinor;
+  else {
+    if (row.amountMinor >= 0) total.inMinor += row.amountMinor;
+    else total.outMinor += row.amountMinor;
+    total.netMinor += row.amountMinor;
+  }
   total.estimatedFeesMinor += estimatedFeeMinor(row, fee);
   total.movements++;
 }

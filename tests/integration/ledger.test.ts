@@ -81,17 +81,20 @@ describe("ledger totals", () => {
     const view = loadLedgerView(db, ledgerFilterSchema.parse({}));
     expect(view.rows.map((row) => row.externalRef)).toEqual(["r3", "r4", "r2", "r6", "r1", "r5"]);
     const totals = ledgerTotals(view.rows, view.timeZone, view.fee);
-    const byCampaign = Object.fromEntries(totals.byCampaign.map((total) => [total.campaignTitle ?? "(none)", [total.inMinor, total.outMinor, total.netMinor, total.estimatedFeesMinor, total.movements]]));
+    const byCampaign = Object.fromEntries(
+      totals.byCampaign.map((total) => [total.campaignTitle ?? "(none)", [total.inMinor, total.outMinor, total.netMinor, total.labFundMinor, total.estimatedFeesMinor, total.movements]]),
+    );
+    // Cash in / out / net, then lab-fund support (allocations are transfers inside the lab, kept apart).
     expect(byCampaign).toEqual({
-      "Campaign A": [6_500, -2_500, 4_000, 249, 3],
-      "Campaign B, second": [1_550, -1_000, 550, 75, 2],
-      "(none)": [800, 0, 800, 54, 1],
+      "Campaign A": [6_500, -2_500, 4_000, 0, 249, 3],
+      "Campaign B, second": [1_550, 0, 1_550, 1_000, 75, 2],
+      "(none)": [800, 0, 800, 0, 54, 1],
     });
-    expect(totals.byMonth.map((total) => [total.month, total.inMinor, total.outMinor, total.netMinor, total.estimatedFeesMinor])).toEqual([
-      ["2026-04", 4_800, -2_500, 2_300, 200],
-      ["2026-03", 4_050, -1_000, 3_050, 178],
+    expect(totals.byMonth.map((total) => [total.month, total.inMinor, total.outMinor, total.netMinor, total.labFundMinor, total.estimatedFeesMinor])).toEqual([
+      ["2026-04", 4_800, -2_500, 2_300, 0, 200],
+      ["2026-03", 4_050, 0, 4_050, 1_000, 178],
     ]);
-    expect(totals.overall).toEqual([{ currency: "USD", inMinor: 8_850, outMinor: -3_500, netMinor: 5_350, estimatedFeesMinor: 378, movements: 6 }]);
+    expect(totals.overall).toEqual([{ currency: "USD", inMinor: 8_850, outMinor: -2_500, netMinor: 6_350, labFundMinor: 1_000, estimatedFeesMinor: 378, movements: 6 }]);
   });
 
   it("filters by kind, campaign and a month range in lab time", () => {
@@ -115,7 +118,7 @@ describe("ledger page", () => {
     expect(html).toContain("+$40.00");
     expect(html).toContain("Apr 1, 2026, 12:30 AM GMT+13");
     expect(html).toContain('href="/api/lab/ledger.csv?from=2026-04&amp;to=2026-04"');
-    expect(html).toMatch(/estimated processor fees \$2\.00/);
+    expect(html).toMatch(/estimated\s+processor fees \$2\.00/);
     expect(html).toContain("ask a licensed adviser");
   });
 });

@@ -1,9 +1,10 @@
 import { and, eq, inArray, like } from "drizzle-orm";
 import { afterAll, beforeEach, describe, expect, it } from "vitest";
 import { assignJobPrinter, moveJob, readQueueBoard, setPrinterAvailability } from "@/db/queries/queue-board";
+import { fundIfGoalReached } from "@/db/queries/pledges";
 import { jobIdFor, materialiseJobs } from "@/db/queries/queue-jobs";
 import { loadQueueState, recomputeQueue } from "@/db/queries/queue";
-import { campaigns, jobs, outbox, pledges, printerMaintenance, printers, testPlanPieces, testPlans, testPlanVariants } from "@/db/schema";
+import { campaigns, jobRuns, jobs, outbox, pledges, printerMaintenance, printers, testPlanPieces, testPlans, testPlanVariants } from "@/db/schema";
 import { seedDemo, seedId } from "@/db/seed";
 import { RuleViolation } from "@/lib/rule-violation";
 import { buildSchedule } from "@/lib/schedule/build";
@@ -60,6 +61,20 @@ describe("job materialisation", () => {
     const after = campaignJobs(mattePla.id);
     expect(after.map((job) => job.id).sort()).toEqual(before.map((job) => job.id).sort());
     for (const job of after) expect(job.id).toBe(jobIdFor(job.campaignId, job.pieceId, job.variantId, job.repeat));
+  });
+
+  it("writes the jobs in the transaction that funds a campaign, once", () => {
+    const open = db.select().from(campaigns).where(eq(campaigns.slug, "twin-inlet-ring-duct-vs-stock")).get()!;
+    expect(open.state).toBe("open");
+    expect(campaignJobs(open.id)).toHaveLength(0);
+    db.insert(pledges)
+      .values({ campaignId: open.id, supporterId: seedId("user", "supporter"), amountMinor: open.goalMinor, currency: open.currency, state: "paid", paidAt: NOW, createdAt: NOW })
+      .run();
+    const fund = () => db.transaction((tx) => fundIfGoalReached(tx, db.select().from(campaigns).where(eq(campaigns.id, open.id)).get()!, { campaignUrl: "", now: NOW }));
+    expect(fund()).toBe(true);
+    expect(fund()).toBe(false);
+    expect(campaignJobs(open.id)).toHaveLength(expectedJobCount(open.id));
+    expect(materialiseJobs(db, open.id)).toBe(0);
   });
 
   it("estimates each job on the plan's printer (positive hours, the same for the same piece)", () => {
@@ -222,5 +237,22 @@ describe("moving a job to another printer", () => {
     const after = db.select().from(jobs).where(eq(jobs.id, job.id)).get()!;
     expect(after.chosenPrinterId).toBe(target);
     expect(after.printerId).toBe(target);
+  });
+});
+
+describe("a campaign whose every job is printed", () => {
+  it("dates its results from the last finished run plus report preparation", () => {
+    const printed = campaignJobs(asaWarp.id);
+    const finishes = printed.map((_, i) => NOW.getTime() - (i + 1) * 3_600_000);
+    printed.forEach((job, i) => {
+      db.update(jobs).set({ state: "done" }).where(eq(jobs.id, job.id)).run();
+      db.insert(jobRuns)
+        .values({ jobId: job.id, attempt: 1, printerId: heron, startedAt: new Date(finishes[i]! - 3_600_000), finishedAt: new Date(finishes[i]!), estimatedHoursAtStart: 1, efficiencyAtStart: 0.5, actualHours: 1, filamentUsedGrams: 10, outcome: "done" })
+        .run();
+    });
+    recomputeQueue(db, { now: NOW, appUrl, mail: false });
+    const stored = db.select().from(campaigns).where(eq(campaigns.id, asaWarp.id)).get()!;
+    // The first job finished last (an hour before NOW); seed-data LAB.reportPrepHours = 24.
+    expect(stored.estimatedResultsAt?.getTime()).toBe(Math.max(...finishes) + 24 * 3_600_000);
   });
 });

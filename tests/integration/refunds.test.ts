@@ -39,6 +39,7 @@ vi.mock("next/navigation", () => ({
   notFound: () => {
     throw new Error("notFound");
   },
+  useRouter: () => ({ refresh: () => {}, push: () => {} }),
 }));
 vi.mock("next/cache", () => ({ revalidatePath: () => {} }));
 
@@ -365,6 +366,13 @@ describe("withdraw", () => {
     expect(missing.ok ? null : missing.fields?.reason).toMatch(/reason backers will read/);
     expect(await withdrawCampaignAction(campaign.id, {})).toMatchObject({ ok: false, status: 422, fields: { reason: expect.any(String) } });
     expect(db.select().from(campaigns).where(eq(campaigns.id, campaign.id)).get()!.state).toBe("open");
+
+    const { renderToStaticMarkup } = await import("react-dom/server");
+    const { default: LabCampaignPage } = await import("@/app/lab/campaigns/[id]/page");
+    signedIn.viewer = host;
+    const lab = renderToStaticMarkup(await LabCampaignPage({ params: Promise.resolve({ id: campaign.id }) }));
+    expect(lab).toContain("Withdraw and refund 0 paid pledges");
+    expect(lab).toContain("Reason (required");
   });
 
   it("a host withdraws a funded campaign: everyone is refunded once and told why; a second click is a 409", async () => {
@@ -397,6 +405,19 @@ describe("withdraw", () => {
     expect(later.refunded).toBe(0);
     expect(refundFootprint(campaign.id).ledger.map((row) => row.amountMinor).sort((x, y) => x - y)).toEqual([-3_000, -2_500]);
     expect(await withdrawCampaignAction(campaign.id, { reason })).toMatchObject({ ok: false, status: 409 });
+
+    // The lab's page shows the reason and the finished refunds, without the withdraw form; the public page the reason.
+    const { renderToStaticMarkup } = await import("react-dom/server");
+    const { default: LabCampaignPage } = await import("@/app/lab/campaigns/[id]/page");
+    const lab = renderToStaticMarkup(await LabCampaignPage({ params: Promise.resolve({ id: campaign.id }) }));
+    expect(lab).toContain(reason);
+    expect(lab).toContain("2 refunded · 0 in progress · 0 need a look");
+    expect(lab).not.toContain("Withdraw and refund");
+    signedIn.viewer = null;
+    const { default: CampaignPage } = await import("@/app/(public)/campaigns/[slug]/page");
+    const publicPage = renderToStaticMarkup(await CampaignPage({ params: Promise.resolve({ slug: campaign.slug }), searchParams: Promise.resolve({}) }));
+    expect(publicPage).toMatch(/data-testid="campaign-closed"[^>]*>.*The lab withdrew this campaign/s);
+    expect(publicPage).toContain(`The lab&#x27;s reason: ${reason}`);
   });
 
   it("seeded demo payments the processor never took are recorded as refunded outside it, and the backers are still mailed", async () => {
@@ -413,5 +434,15 @@ describe("withdraw", () => {
     expect(refundRows.every((row) => row.memo === OUTSIDE_PROCESSOR_MEMO)).toBe(true);
     expect(db.select().from(pledges).where(inArray(pledges.id, seededPaid.map((p) => p.id))).all().every((p) => p.state === "refunded" && p.refundId === null)).toBe(true);
     expect(db.select().from(outbox).where(inArray(outbox.dedupeKey, seededPaid.map((p) => `pledge-refund:${p.id}`))).all()).toHaveLength(seededPaid.length);
+
+    // Mina (db/seed-data.ts: a forced pledge on this campaign) sees it refunded, with the date and why.
+    const mina = account("member@harbor-street.example");
+    signedIn.viewer = { ...mina, role: "member" };
+    const { renderToStaticMarkup } = await import("react-dom/server");
+    const { default: MyPledgesPage } = await import("@/app/(account)/account/pledges/page");
+    const html = renderToStaticMarkup(await MyPledgesPage());
+    const row = html.split('data-testid="own-pledge"').find((part) => part.includes(seeded.title)) ?? "";
+    expect(row).toContain('data-state="refunded"');
+    expect(row).toContain("Campaign withdrawn");
   });
 });

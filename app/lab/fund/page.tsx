@@ -79,7 +79,7 @@ export default async function LabFundPage() {
                 <tr key={row.id} className="border-b border-line last:border-0" data-testid="lab-fund-row" data-kind={row.kind}>
                   <td className="whitespace-nowrap px-4 py-2.5 text-muted">{formatDateTime(row.occurredAt, timeZone)}</td>
                   <td className="px-4 py-2.5">
-                    <span className={cn("rounded-md px-2 py-0.5 text-xs font-semibold", tones[row.kind as LabFundKind])}>{labFundKindLabels[row.kind as LabFundKind]}</span>
+                    <span className={cn("whitespace-nowrap rounded-md px-2 py-0.5 text-xs font-semibold", tones[row.kind as LabFundKind])}>{labFundKindLabels[row.kind as LabFundKind]}</span>
                   </td>
                   <td className="px-4 py-2.5">
                     {row.campaignSlug ? (

@@ -18,6 +18,9 @@ export const metadata: Metadata = { title: "Ledger · Lab" };
 
 type Props = { searchParams: Promise<Record<string, string | string[] | undefined>> };
 
+/** The table shows the newest this many; totals and the CSV always cover every matching movement. */
+const ROWS_SHOWN = 200;
+
 const inputClass = "rounded-lg border border-line bg-surface px-3 py-2 text-sm aria-invalid:border-rose";
 
 function money(minor: number, currency: string): string {
@@ -51,6 +54,7 @@ export default async function LedgerPage({ searchParams }: Props) {
   const { rows, timeZone, fee } = loadLedgerView(db, filter);
   const totals = ledgerTotals(rows, timeZone, fee);
   const campaignsWithMoney = listLedgerCampaigns(db);
+  const shown = rows.slice(0, ROWS_SHOWN);
   const feeText = `${(fee.basisPoints / 100).toLocaleString("en-US")} % + ${money(fee.fixedMinor, totals.overall[0]?.currency ?? "USD")} per charge`;
 
   return (
@@ -60,7 +64,8 @@ export default async function LedgerPage({ searchParams }: Props) {
           <h1 className="text-2xl font-bold">Ledger</h1>
           <p className="max-w-3xl text-muted">
             Every money movement, once: pledge payments and refunds, membership income, lab-fund allocations and returns. Money in
-            is positive, money out negative. Times are in the lab&apos;s time zone ({timeZone}).
+            is positive, money out negative; lab-fund rows are signed from the fund&apos;s side (an allocation leaves the fund), and
+            the totals keep them apart from cash as &ldquo;Lab fund&rdquo; support. Times are in the lab&apos;s time zone ({timeZone}).
           </p>
         </div>
         <Button asChild variant="secondary">
@@ -151,8 +156,9 @@ export default async function LedgerPage({ searchParams }: Props) {
         </p>
         {totals.overall.map((total) => (
           <p key={total.currency}>
-            All shown movements, {total.currency}: in {money(total.inMinor, total.currency)}, out {money(total.outMinor, total.currency)}, net{" "}
-            <strong>{money(total.netMinor, total.currency)}</strong>; estimated processor fees {money(total.estimatedFeesMinor, total.currency)}.
+            All shown movements, {total.currency}: cash in {money(total.inMinor, total.currency)}, out {money(total.outMinor, total.currency)}, net{" "}
+            <strong>{money(total.netMinor, total.currency)}</strong>; lab fund to campaigns {money(total.labFundMinor, total.currency)}; estimated
+            processor fees {money(total.estimatedFeesMinor, total.currency)}.
           </p>
         ))}
         <p className="rounded-md bg-ember-soft/60 p-2 text-xs">
@@ -161,6 +167,12 @@ export default async function LedgerPage({ searchParams }: Props) {
         </p>
       </Card>
 
+      {rows.length > shown.length ? (
+        <p className="text-sm text-muted">
+          Showing the newest {shown.length} of {rows.length} movements; the totals above and the CSV cover all of them. Narrow the
+          filters to see older ones here.
+        </p>
+      ) : null}
       <Card className="overflow-x-auto p-0">
         <table className="w-full min-w-[56rem] text-sm">
           <caption className="sr-only">Ledger movements, newest first</caption>
@@ -180,7 +192,7 @@ export default async function LedgerPage({ searchParams }: Props) {
                 <td colSpan={6} className="px-4 py-6 text-center text-muted">No movements match these filters.</td>
               </tr>
             ) : (
-              rows.map((row) => (
+              shown.map((row) => (
                 <tr key={row.id} data-testid="ledger-row" data-kind={row.kind} className="border-b border-line last:border-0">
                   <td className="px-4 py-2.5 whitespace-nowrap text-muted">{formatDateTime(row.occurredAt, timeZone)}</td>
                   <td className="px-4 py-2.5">{ledgerKindLabels[row.kind]}</td>
@@ -231,6 +243,7 @@ function TotalsTable({
           <th scope="col" className="px-4 py-2 text-right font-medium">In</th>
           <th scope="col" className="px-4 py-2 text-right font-medium">Out</th>
           <th scope="col" className="px-4 py-2 text-right font-medium">Net</th>
+          <th scope="col" className="px-4 py-2 text-right font-medium">Lab fund</th>
           <th scope="col" className="px-4 py-2 text-right font-medium">Est. fees</th>
           {showGoalFee ? <th scope="col" className="px-4 py-2 text-right font-medium">Fee line in goal</th> : null}
         </tr>
@@ -238,7 +251,7 @@ function TotalsTable({
       <tbody>
         {rows.length === 0 ? (
           <tr>
-            <td colSpan={showGoalFee ? 6 : 5} className="px-4 py-4 text-center text-muted">Nothing yet.</td>
+            <td colSpan={showGoalFee ? 7 : 6} className="px-4 py-4 text-center text-muted">Nothing yet.</td>
           </tr>
         ) : (
           rows.map(({ key, label, total, goalFee }) => (
@@ -247,6 +260,7 @@ function TotalsTable({
               <td className="px-4 py-2 text-right font-mono">{money(total.inMinor, total.currency)}</td>
               <td className="px-4 py-2 text-right font-mono">{money(total.outMinor, total.currency)}</td>
               <td className="px-4 py-2 text-right font-mono font-semibold">{money(total.netMinor, total.currency)}</td>
+              <td className="px-4 py-2 text-right font-mono">{total.labFundMinor === 0 ? "—" : money(total.labFundMinor, total.currency)}</td>
               <td className="px-4 py-2 text-right font-mono text-muted">{money(total.estimatedFeesMinor, total.currency)}</td>
               {showGoalFee ? <td className="px-4 py-2 text-right font-mono text-muted">{goalFee === null ? "—" : money(goalFee, total.currency)}</td> : null}
             </tr>

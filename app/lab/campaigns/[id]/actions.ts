@@ -8,6 +8,7 @@ import { env } from "@/lib/env";
 import { withdrawCampaignSchema } from "@/lib/validation/campaign-close";
 import { guardedAction, parseInput } from "@/server/action";
 import { expireOpenCheckouts, processRefundRequests } from "@/server/refund-sweeper";
+import { refreshQueue } from "@/server/queue-refresh";
 import { getStripe } from "@/server/stripe";
 
 const idSchema = z.string().min(1).max(80);
@@ -23,6 +24,8 @@ export async function withdrawCampaignAction(campaignId: string, input: unknown)
     const { reason } = parseInput(withdrawCampaignSchema, input);
     const db = getDb();
     const withdrawn = withdrawCampaign(db, { campaignId: id, reason, hostId: viewer.id });
+    // A withdrawn funded campaign's jobs leave the print queue (it only places funded, queued and printing campaigns).
+    if (withdrawn.previousState === "funded") refreshQueue(db, null);
     await expireOpenCheckouts(db, getStripe(), new Date());
     const refunds = await processRefundRequests(db, getStripe(), { appUrl: env.appUrl, campaignId: id, maxPerPass: 200 });
     revalidatePath(`/lab/campaigns/${id}`);
