@@ -12,7 +12,7 @@ import { randomUUID } from "node:crypto";
 import { and, eq, like, sql } from "drizzle-orm";
 import Stripe from "stripe";
 import { openDatabase } from "../db/client";
-import { campaigns, ledgerEntries, pledges, processorEvents, users } from "../db/schema";
+import { campaigns, ledgerEntries, outbox, pledges, processorEvents, users } from "../db/schema";
 import { loadTest } from "./load";
 
 const WEBHOOK_SECRET = "whsec_proofbay_local_fake";
@@ -31,6 +31,9 @@ export type WebhookFigures = {
   recordedEvents: number;
   fundedTransitions: number;
   lostOrDoubled: number;
+  /** Seconds after the burst until every receipt it caused was sent (the outbox steps aside during a burst). */
+  receiptsSentAfterSeconds: number | null;
+  receiptsSent: number;
 };
 
 /** A campaign whose goal is crossed halfway through the run, and one pending pledge per event. */
@@ -120,6 +123,7 @@ export async function runWebhookBench(appUrl: string, databasePath: string, coun
     ],
   });
 
+  const receipts = await waitForReceipts(databasePath, rows.map((row) => row.id), 180_000);
   const db = openDatabase(databasePath);
   try {
     const ledgerRows = db
@@ -144,7 +148,31 @@ export async function runWebhookBench(appUrl: string, databasePath: string, coun
       recordedEvents,
       fundedTransitions: campaign?.state === "funded" && campaign.fundedAt ? 1 : 0,
       lostOrDoubled: Math.abs(ledgerRows - count) + Math.abs(paidPledges - count) + Math.abs(recordedEvents - count),
+      receiptsSentAfterSeconds: receipts.seconds,
+      receiptsSent: receipts.sent,
     };
+  } finally {
+    db.$client.close();
+  }
+}
+
+/** Polls the outbox until every pledge's receipt is sent, so later benches meet a quiet app. */
+async function waitForReceipts(databasePath: string, pledgeIds: string[], timeoutMs: number): Promise<{ seconds: number | null; sent: number }> {
+  const db = openDatabase(databasePath);
+  const keys = new Set(pledgeIds.map((id) => `pledge-receipt:${id}`));
+  const started = Date.now();
+  try {
+    for (;;) {
+      const sent = db
+        .select({ key: outbox.dedupeKey })
+        .from(outbox)
+        .where(and(like(outbox.dedupeKey, "pledge-receipt:%"), eq(outbox.state, "sent")))
+        .all()
+        .filter((row) => keys.has(row.key)).length;
+      if (sent >= keys.size) return { seconds: (Date.now() - started) / 1000, sent };
+      if (Date.now() - started > timeoutMs) return { seconds: null, sent };
+      await new Promise((resolve) => setTimeout(resolve, 500));
+    }
   } finally {
     db.$client.close();
   }

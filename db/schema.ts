@@ -483,7 +483,8 @@ export const pledges = sqliteTable(
     refundedAt: integer("refunded_at", { mode: "timestamp_ms" }),
   },
   (t) => [
-    index("pledge_campaign_idx").on(t.campaignId, t.state),
+    // Covers the goal check's sum of paid pledges, run on every payment.
+    index("pledge_campaign_idx").on(t.campaignId, t.state, t.amountMinor),
     index("pledge_supporter_idx").on(t.supporterId),
     check("pledge_amount_positive", sql`${t.amountMinor} > 0`),
   ],

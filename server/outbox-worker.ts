@@ -23,6 +23,8 @@ export type OutboxWorkerOptions = {
   /** Sends in flight at once (the SMTP pool spreads them over its connections). */
   concurrency?: number;
   leaseMs?: number;
+  /** Asked between batches; true ends the pass early (the next poll carries on). */
+  shouldYield?: () => boolean;
 };
 
 const DEFAULT_BATCH = 100;
@@ -113,6 +115,7 @@ export async function drainOutbox(db: Db, send: SendMail, options: OutboxWorkerO
   let sent = 0;
   try {
     for (;;) {
+      if (options.shouldYield?.()) return sent;
       const batch = claimDueMail(db, now(), options.batchSize ?? DEFAULT_BATCH, { leaseMs: options.leaseMs ?? SEND_LEASE_MS });
       if (batch.length === 0) return sent;
       await inParallel(batch, concurrency, async (message) => {

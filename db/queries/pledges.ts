@@ -153,6 +153,7 @@ export function applyPledgeEvent(
       tx,
       {
         dedupeKey: pledgeKeys.receipt(pledge.id),
+        userId: pledge.supporterId,
         toAddress: backer.email,
         template: "pledge-receipt",
         subject: `Your pledge to “${campaign.title}”`,
@@ -216,6 +217,7 @@ export function fundIfGoalReached(tx: Tx, campaign: Campaign, options: { campaig
       tx,
       {
         dedupeKey: pledgeKeys.funded(campaign.id, backer.id),
+        userId: backer.id,
         toAddress: backer.email,
         template: "campaign-funded",
         subject: `“${campaign.title}” is funded`,

@@ -8,6 +8,7 @@ import { recordProcessorEvent } from "@/db/queries/processor-events";
 import { applyRefundEvent } from "@/db/queries/refunds";
 import { env } from "@/lib/env";
 import { refreshQueue } from "@/server/queue-refresh";
+import { noteForegroundRequest } from "@/server/foreground-pressure";
 import { getStripe } from "@/server/stripe";
 
 export const dynamic = "force-dynamic";
@@ -30,6 +31,7 @@ function badRequest(code: string, message: string) {
  * sessions that are not a pledge's, are acknowledged and ignored.
  */
 export async function POST(request: Request) {
+  noteForegroundRequest();
   const signature = request.headers.get("stripe-signature");
   if (!signature) return badRequest("missing_signature", "The Stripe-Signature header is missing.");
   const body = await request.text();
