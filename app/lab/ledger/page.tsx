@@ -122,7 +122,7 @@ export default async function LedgerPage({ searchParams }: Props) {
         </p>
       ) : null}
 
-      <section aria-labelledby="totals-heading" className="grid gap-4 lg:grid-cols-2">
+      <section aria-labelledby="totals-heading" className="grid gap-4 2xl:grid-cols-2">
         <h2 id="totals-heading" className="sr-only">
           Totals
         </h2>
