@@ -1,7 +1,7 @@
 import { dateTimeFormat } from "./intl-cache";
 
 /** The wall-clock fields of an instant in a time zone. */
-function wallClock(instant: number, timeZone: string) {
+export function wallClock(instant: number, timeZone: string) {
   const parts = dateTimeFormat("en-US", {
     timeZone,
     hourCycle: "h23",
@@ -17,7 +17,7 @@ function wallClock(instant: number, timeZone: string) {
 }
 
 /** The zone's offset from UTC at an instant, in milliseconds (positive east of Greenwich). */
-function offsetMs(instant: number, timeZone: string): number {
+export function zoneOffsetMs(instant: number, timeZone: string): number {
   const wall = wallClock(instant, timeZone);
   const asUtc = Date.UTC(wall.year, wall.month - 1, wall.day, wall.hour, wall.minute, wall.second);
   return asUtc - Math.floor(instant / 1000) * 1000;
@@ -27,8 +27,8 @@ function offsetMs(instant: number, timeZone: string): number {
 export function zonedMidnight(year: number, month: number, day: number, timeZone: string): Date {
   const guess = Date.UTC(year, month - 1, day);
   // Two passes settle the offset even when the first guess lands across a DST change.
-  const first = guess - offsetMs(guess, timeZone);
-  return new Date(guess - offsetMs(first, timeZone));
+  const first = guess - zoneOffsetMs(guess, timeZone);
+  return new Date(guess - zoneOffsetMs(first, timeZone));
 }
 
 /** The calendar month containing `now` in `timeZone`, as [start, end) UTC instants. */

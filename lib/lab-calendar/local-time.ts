@@ -1,4 +1,4 @@
-import { dateTimeFormat } from "../intl-cache";
+import { wallClock, zoneOffsetMs as offsetMs } from "../time-zone";
 
 /*
  * The lab's calendar is typed in the lab's wall-clock time and stored as UTC milliseconds. These
@@ -8,26 +8,6 @@ import { dateTimeFormat } from "../intl-cache";
 
 const LOCAL_DATE_TIME = /^(\d{4})-(\d{2})-(\d{2})T(\d{2}):(\d{2})$/;
 const MINUTE_OF_DAY = /^(\d{2}):(\d{2})$/;
-
-function wallClock(instant: number, timeZone: string) {
-  const parts = dateTimeFormat("en-US", {
-    timeZone,
-    hourCycle: "h23",
-    year: "numeric",
-    month: "numeric",
-    day: "numeric",
-    hour: "numeric",
-    minute: "numeric",
-    second: "numeric",
-  }).formatToParts(new Date(instant));
-  const field = (type: string) => Number(parts.find((part) => part.type === type)?.value);
-  return { year: field("year"), month: field("month"), day: field("day"), hour: field("hour"), minute: field("minute") };
-}
-
-function offsetMs(instant: number, timeZone: string): number {
-  const wall = wallClock(instant, timeZone);
-  return Date.UTC(wall.year, wall.month - 1, wall.day, wall.hour, wall.minute) - Math.floor(instant / 60_000) * 60_000;
-}
 
 const pad = (value: number, width = 2) => String(value).padStart(width, "0");
 

@@ -1,4 +1,4 @@
-import { dateTimeFormat } from "../intl-cache";
+import { zoneOffsetMs } from "../time-zone";
 
 /*
  * Wall-clock arithmetic in an IANA time zone, built on Intl only. The lab's start windows are
@@ -14,29 +14,6 @@ const WEEK = 7 * DAY;
 
 export type LocalDate = { year: number; month: number; day: number };
 
-function wallFields(instant: number, timeZone: string) {
-  const parts = dateTimeFormat("en-US", {
-    timeZone,
-    hourCycle: "h23",
-    year: "numeric",
-    month: "numeric",
-    day: "numeric",
-    hour: "numeric",
-    minute: "numeric",
-    second: "numeric",
-  }).formatToParts(new Date(instant));
-  const fields = { year: 0, month: 0, day: 0, hour: 0, minute: 0, second: 0 };
-  for (const part of parts) {
-    if (part.type in fields) fields[part.type as keyof typeof fields] = Number(part.value);
-  }
-  return fields;
-}
-
-/** The zone's offset from UTC at an instant, in milliseconds (positive east of Greenwich), straight from Intl. */
-export function zoneOffsetMs(instant: number, timeZone: string): number {
-  const wall = wallFields(instant, timeZone);
-  return Date.UTC(wall.year, wall.month - 1, wall.day, wall.hour, wall.minute, wall.second) - Math.floor(instant / 1000) * 1000;
-}
 
 type Segment = { from: number; offset: number };
 const weeklyProbes = new Map<string, Map<number, number>>();
