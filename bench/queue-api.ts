@@ -4,7 +4,6 @@
  * weekly start windows and maintenance. Also measured: the recompute behind every queue change
  * (materialise, schedule, store placements and dates, queue mails) on a temp database.
  */
-import { randomBytes } from "node:crypto";
 import { mkdtempSync, rmSync } from "node:fs";
 import os from "node:os";
 import path from "node:path";
@@ -20,14 +19,13 @@ import {
   labStartWindows,
   printerMaintenance,
   printers,
-  sessions,
   testPlanPieces,
   testPlans,
   testPlanVariants,
-  users,
   type NewPrinter,
 } from "../db/schema";
 import { mulberry32, seedDemo } from "../db/seed";
+import { latencyFigures as figures, timeHostGet, type LatencyFigures } from "./host-get";
 
 const HOUR = 3_600_000;
 const DAY = 24 * HOUR;
@@ -126,7 +124,6 @@ export function insertGeneratedQueue(db: Db, options: { campaignCount?: number; 
   });
 }
 
-export type LatencyFigures = { p50Ms: number; p99Ms: number; samples: number };
 export type QueueFigures = {
   jobs: number;
   printers: number;
@@ -143,13 +140,6 @@ export type QueueFigures = {
   boardReadAfterChange: LatencyFigures;
   http?: LatencyFigures;
 };
-
-function figures(samples: number[]): LatencyFigures {
-  const sorted = [...samples].sort((a, b) => a - b);
-  const at = (share: number) => sorted[Math.min(sorted.length - 1, Math.max(0, Math.ceil(share * sorted.length) - 1))] ?? 0;
-  const round = (value: number) => Math.round(value * 1000) / 1000;
-  return { p50Ms: round(at(0.5)), p99Ms: round(at(0.99)), samples: samples.length };
-}
 
 /** Recompute and board read on a temp database: the seed plus the generated queue. */
 export function runQueueRecomputeBench(runs = 9, reads = 200): QueueFigures {
@@ -209,30 +199,11 @@ export function runQueueRecomputeBench(runs = 9, reads = 200): QueueFigures {
 /** `GET /api/lab/queue` through a running app, after adding the generated queue to its database. */
 export async function runQueueHttpBench(appUrl: string, databasePath: string, iterations = 200): Promise<LatencyFigures> {
   const db = openDatabase(databasePath);
-  const token = randomBytes(32).toString("hex");
   try {
-    const host = db.select({ id: users.id }).from(users).where(eq(users.role, "host")).get();
-    if (!host) throw new Error("The bench stack has no host account.");
     insertGeneratedQueue(db);
     recomputeQueue(db, { appUrl, mail: false });
-    db.insert(sessions).values({ sessionToken: token, userId: host.id, expires: new Date(Date.now() + HOUR) }).run();
-    const cookie = `${appUrl.startsWith("https://") ? "__Secure-" : ""}authjs.session-token=${token}`;
-    const once = async () => {
-      const response = await fetch(`${appUrl}/api/lab/queue`, { headers: { cookie, accept: "application/json" } });
-      if (response.status !== 200) throw new Error(`GET /api/lab/queue answered ${response.status}`);
-      await response.arrayBuffer();
-    };
-    await once().catch(() => once());
-    for (let i = 0; i < 20; i++) await once();
-    const samples: number[] = [];
-    for (let i = 0; i < iterations; i++) {
-      const start = performance.now();
-      await once();
-      samples.push(performance.now() - start);
-    }
-    return figures(samples);
+    return await timeHostGet(db, appUrl, `${appUrl}/api/lab/queue`, iterations);
   } finally {
-    db.delete(sessions).where(eq(sessions.sessionToken, token)).run();
     db.$client.close();
   }
 }

@@ -3,7 +3,6 @@
  * searched page answers with p50 under 50 ms. Measured on the query function against a temp
  * database, and — given a running stack — through `GET /api/lab/proposals` over HTTP as a host.
  */
-import { randomBytes } from "node:crypto";
 import { mkdtempSync, rmSync } from "node:fs";
 import os from "node:os";
 import path from "node:path";
@@ -12,7 +11,8 @@ import { performance } from "node:perf_hooks";
 import { eq } from "drizzle-orm";
 import { migrateDatabase, openDatabase, type Db } from "../db/client";
 import { listTriagePage } from "../db/queries/triage";
-import { proposals, sessions, users, type NewProposal } from "../db/schema";
+import { proposals, users, type NewProposal } from "../db/schema";
+import { latencyFigures, timeHostGet, type LatencyFigures } from "./host-get";
 import { mulberry32, seedDemo } from "../db/seed";
 import { triageQuerySchema, type TriageQueryInput } from "../lib/validation/triage";
 
@@ -102,7 +102,7 @@ export function insertGeneratedProposals(db: Db, count: number, options: { seed?
 
 /* ---------- Measurement ---------- */
 
-export type LatencyFigures = { p50Ms: number; p99Ms: number; samples: number };
+export type { LatencyFigures };
 export type TriageFigures = {
   proposals: number;
   /** The budget's case: state filter + kind + printer type + prefix search + sort + a later page. */
@@ -121,17 +121,6 @@ export const TRIAGE_BENCH_CASES: Record<string, TriageQueryInput> = {
   "deep page, 100 per page": { state: ["submitted", "declined", "merged", "accepted"], sort: "age", dir: "asc", page: "40", pageSize: "100" },
 };
 const BUDGET_CASE = "filtered + searched + sorted";
-
-function percentile(sorted: readonly number[], share: number): number {
-  const index = Math.min(sorted.length - 1, Math.max(0, Math.ceil(share * sorted.length) - 1));
-  return sorted[index] ?? 0;
-}
-
-function figures(samples: number[]): LatencyFigures {
-  const sorted = [...samples].sort((a, b) => a - b);
-  const round = (value: number) => Math.round(value * 1000) / 1000;
-  return { p50Ms: round(percentile(sorted, 0.5)), p99Ms: round(percentile(sorted, 0.99)), samples: samples.length };
-}
 
 function measure(run: () => unknown, iterations: number): number[] {
   for (let i = 0; i < 20; i++) run(); // warm-up: statement cache, SQLite page cache
@@ -155,7 +144,7 @@ export function runTriageQueryBench(count = 10_000, iterations = 300): TriageFig
     const byCase: Record<string, LatencyFigures> = {};
     for (const [name, input] of Object.entries(TRIAGE_BENCH_CASES)) {
       const query = triageQuerySchema.parse(input);
-      byCase[name] = figures(measure(() => listTriagePage(db, query), iterations));
+      byCase[name] = latencyFigures(measure(() => listTriagePage(db, query), iterations));
     }
     const budget = byCase[BUDGET_CASE];
     if (!budget) throw new Error("missing budget case");
@@ -172,37 +161,15 @@ export function runTriageQueryBench(count = 10_000, iterations = 300): TriageFig
  */
 export async function runTriageHttpBench(appUrl: string, databasePath: string, count = 10_000, iterations = 200): Promise<LatencyFigures> {
   const db = openDatabase(databasePath);
-  const token = randomBytes(32).toString("hex");
   try {
-    const host = db.select({ id: users.id }).from(users).where(eq(users.role, "host")).get();
-    if (!host) throw new Error("The bench stack has no host account.");
     insertGeneratedProposals(db, count);
-    db.insert(sessions).values({ sessionToken: token, userId: host.id, expires: new Date(Date.now() + 60 * 60 * 1000) }).run();
     const input = TRIAGE_BENCH_CASES[BUDGET_CASE] ?? {};
     const params = new URLSearchParams();
     for (const [key, value] of Object.entries(input)) {
       for (const item of Array.isArray(value) ? value : [value]) params.append(key, String(item));
     }
-    const url = `${appUrl}/api/lab/proposals?${params}`;
-    const cookie = `${appUrl.startsWith("https://") ? "__Secure-" : ""}authjs.session-token=${token}`;
-    const once = async () => {
-      const response = await fetch(url, { headers: { cookie, accept: "application/json" } });
-      if (response.status !== 200) throw new Error(`GET /api/lab/proposals answered ${response.status}`);
-      await response.arrayBuffer();
-    };
-    // The first request may land on a pooled keep-alive socket the server has since closed
-    // ("other side closed"); one retry of that warm-up request is enough.
-    await once().catch(() => once());
-    for (let i = 0; i < 20; i++) await once();
-    const samples: number[] = [];
-    for (let i = 0; i < iterations; i++) {
-      const start = performance.now();
-      await once();
-      samples.push(performance.now() - start);
-    }
-    return figures(samples);
+    return await timeHostGet(db, appUrl, `${appUrl}/api/lab/proposals?${params}`, iterations);
   } finally {
-    db.delete(sessions).where(eq(sessions.sessionToken, token)).run();
     db.$client.close();
   }
 }
