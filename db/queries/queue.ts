@@ -1,4 +1,4 @@
-import { and, eq, gt, inArray, isNull, sql } from "drizzle-orm";
+import { and, eq, gt, inArray, isNotNull, isNull, sql } from "drizzle-orm";
 import { isMaterialId, getMaterial } from "../../lib/estimate/materials";
 import { formatDate } from "../../lib/format";
 import { dateNotice, type DateNotice } from "../../lib/queue/date-notices";
@@ -368,6 +368,11 @@ export function recomputeQueueInTx(tx: Tx, options: RecomputeOptions): Recompute
       notices.push({ campaignId: campaign.id, notice, backers });
     }
   }
+  // A funded campaign whose every job has a place on a printer is queued; its first run moves it to printing.
+  tx.update(campaigns)
+    .set({ state: "queued" })
+    .where(and(eq(campaigns.state, "funded"), isNotNull(campaigns.estimatedResultsAt)))
+    .run();
   return { schedule, jobsCreated, jobsUpdated, campaignsUpdated, notices };
 }
 

@@ -5,6 +5,7 @@ import {
   decideRefund,
   deadlineOutcome,
   isWithdrawable,
+  WITHDRAWABLE_STATES,
   OUTSIDE_PROCESSOR_MEMO,
   REFUND_LEASE_MS,
   refundFactsFromEvent,
@@ -103,7 +104,7 @@ export function closeDueCampaigns(db: Db, context: RefundContext): ClosedCampaig
 export type WithdrawnCampaign = { campaign: Campaign; previousState: Campaign["state"]; refundsRequested: number; fundReturnedMinor: number };
 
 /**
- * A host withdraws an open or funded campaign (409 once printing has begun or it is closed),
+ * A host withdraws an open, funded or queued campaign (409 once printing has begun or it is closed),
  * with the reason backers will read; every paid pledge gets a refund request and lab-fund money
  * returns to the fund, in one IMMEDIATE transaction. A second withdraw (a double click) is a 409.
  */
@@ -113,12 +114,12 @@ export function withdrawCampaign(db: Db, input: { campaignId: string; reason: st
       const campaign = tx.select().from(campaigns).where(eq(campaigns.id, input.campaignId)).get();
       if (!campaign) throw new RuleViolation(404, "not_found", "No such campaign.");
       if (!isWithdrawable(campaign.state)) {
-        throw new RuleViolation(409, "not_withdrawable", `This campaign is ${campaign.state}; only open or funded campaigns can be withdrawn.`);
+        throw new RuleViolation(409, "not_withdrawable", `This campaign is ${campaign.state}; only open, funded or queued campaigns can be withdrawn.`);
       }
       const moved = tx
         .update(campaigns)
         .set({ state: "withdrawn", withdrawReason: input.reason, closedAt: now })
-        .where(and(eq(campaigns.id, campaign.id), inArray(campaigns.state, ["open", "funded"])))
+        .where(and(eq(campaigns.id, campaign.id), inArray(campaigns.state, [...WITHDRAWABLE_STATES])))
         .returning()
         .get();
       if (!moved) throw new RuleViolation(409, "not_withdrawable", "This campaign changed state meanwhile; reload the page.");

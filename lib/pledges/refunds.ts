@@ -40,7 +40,7 @@ export function deadlineOutcome(campaign: CampaignClosing, raisedMinor: number, 
 }
 
 /** States from which a host may withdraw a campaign: nothing has been printed yet. */
-export const WITHDRAWABLE_STATES = ["open", "funded"] as const;
+export const WITHDRAWABLE_STATES = ["open", "funded", "queued"] as const;
 
 export function isWithdrawable(state: string): boolean {
   return (WITHDRAWABLE_STATES as readonly string[]).includes(state);

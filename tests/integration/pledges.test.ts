@@ -77,7 +77,7 @@ afterAll(async () => {
 });
 
 const OPEN_SLUG = "hardened-0-6-mm-nozzle-at-high-flow"; // db/seed-data.ts: open, 15 % raised, USD
-const FUNDED_SLUG = "matte-pla-plus-stiffness-and-overhangs"; // db/seed-data.ts: funded
+const FUNDED_SLUG = "matte-pla-plus-stiffness-and-overhangs"; // db/seed-data.ts: funded, then queued once the seed schedules its jobs
 
 function account(email: string) {
   const row = db.select().from(users).where(eq(users.email, email)).get();
@@ -247,7 +247,7 @@ describe("starting a pledge", () => {
   it("answers 409 on a campaign that is not open or whose deadline has passed, and 401 to a visitor", async () => {
     const funded = await pledgeAs(jules, FUNDED_SLUG, { amount: "25" });
     expect(funded.failure).toMatchObject({ ok: false, status: 409, code: "campaign_closed" });
-    expect(funded.failure!.message).toMatch(/funded and no longer takes pledges/);
+    expect(funded.failure!.message).toMatch(/queued and no longer takes pledges/);
 
     db.insert(campaigns)
       .values({ slug: "deadline-passed", title: "Deadline passed", summary: "Still open, past its deadline.", goalMinor: 50_000, currency: "USD", deadline: new Date(Date.now() - 60_000), openedAt: new Date(Date.now() - 86_400_000) })

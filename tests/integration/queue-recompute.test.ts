@@ -93,6 +93,16 @@ describe("recomputing the queue", () => {
     db.update(printers).set({ status: "available" }).where(inArray(printers.id, [kestrel, wren, heron])).run();
   });
 
+  it("moves a funded campaign to queued once every job has a place, and leaves an open one alone", () => {
+    db.update(campaigns).set({ state: "funded" }).where(eq(campaigns.id, mattePla.id)).run();
+    recomputeQueue(db, { appUrl, now: NOW, mail: false });
+    const after = db.select({ state: campaigns.state, resultsAt: campaigns.estimatedResultsAt }).from(campaigns).where(eq(campaigns.id, mattePla.id)).get()!;
+    expect(after.resultsAt).not.toBeNull();
+    expect(after.state).toBe("queued");
+    const open = db.select({ state: campaigns.state }).from(campaigns).where(eq(campaigns.state, "open")).all();
+    expect(open.length).toBeGreaterThan(0);
+  });
+
   it("stores exactly the placements buildSchedule computes from the same input", () => {
     const now = new Date(NOW.getTime() + 60_000);
     const result = recomputeQueue(db, { now, appUrl, mail: false });

@@ -118,7 +118,7 @@ describe("closing campaigns", () => {
   });
 
   it("lets a host withdraw only before printing, with a reason of at least 10 characters", () => {
-    expect(["open", "funded", "queued", "printing", "reported", "lapsed", "withdrawn"].filter(isWithdrawable)).toEqual(["open", "funded"]);
+    expect(["open", "funded", "queued", "printing", "reported", "lapsed", "withdrawn"].filter(isWithdrawable)).toEqual(["open", "funded", "queued"]);
     expect(withdrawCampaignSchema.safeParse({ reason: "   too short " }).error?.issues[0]?.path).toEqual(["reason"]);
     expect(withdrawCampaignSchema.parse({ reason: "  The part was recalled by its maker.  " })).toEqual({ reason: "The part was recalled by its maker." });
   });

@@ -24,8 +24,8 @@ export async function withdrawCampaignAction(campaignId: string, input: unknown)
     const { reason } = parseInput(withdrawCampaignSchema, input);
     const db = getDb();
     const withdrawn = withdrawCampaign(db, { campaignId: id, reason, hostId: viewer.id });
-    // A withdrawn funded campaign's jobs leave the print queue (it only places funded, queued and printing campaigns).
-    if (withdrawn.previousState === "funded") refreshQueue(db, null);
+    // A withdrawn funded or queued campaign's jobs leave the print queue (it only places funded, queued and printing campaigns).
+    if (withdrawn.previousState !== "open") refreshQueue(db, null);
     await expireOpenCheckouts(db, getStripe(), new Date());
     const refunds = await processRefundRequests(db, getStripe(), { appUrl: env.appUrl, campaignId: id, maxPerPass: 200 });
     revalidatePath(`/lab/campaigns/${id}`);
