@@ -9,7 +9,7 @@ import path from "node:path";
 import { performance } from "node:perf_hooks";
 import { fileURLToPath } from "node:url";
 import { bootstrapBradleyTerry, fitBradleyTerry, type Comparisons } from "../lib/judging/bradley-terry";
-import { mulberry32 } from "../lib/judging/seeded-random";
+import { mulberry32 } from "../lib/seeded-random";
 
 const VARIANTS = 20;
 const VOTES = 50_000;

@@ -24,7 +24,8 @@ import {
   testPlanVariants,
   type NewPrinter,
 } from "../db/schema";
-import { mulberry32, seedDemo } from "../db/seed";
+import { seedDemo } from "../db/seed";
+import { mulberry32 } from "../lib/seeded-random";
 import { latencyFigures as figures, timeHostGet, type LatencyFigures } from "./host-get";
 
 const HOUR = 3_600_000;

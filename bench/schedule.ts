@@ -11,6 +11,7 @@ import { performance } from "node:perf_hooks";
 import { fileURLToPath } from "node:url";
 import { ALWAYS_STAFFED, buildSchedule, lowerBound } from "../lib/schedule";
 import type { Interval, LabCalendar, ScheduleInput, ScheduleJob, SchedulePrinter, WeeklyWindow } from "../lib/schedule";
+import { mulberry32 as seeded } from "../lib/seeded-random";
 
 export const SCHEDULE_BUDGET_MS = 200;
 export const MAKESPAN_BUDGET_RATIO = 1.1;
@@ -42,17 +43,6 @@ export type ScheduleBenchFigures = {
   };
 };
 
-/** mulberry32: a small seeded generator, so every run measures the same instances. */
-function seeded(seed: number): () => number {
-  let state = seed >>> 0;
-  return () => {
-    state = (state + 0x6d2b79f5) >>> 0;
-    let t = state;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
 
 /** A busy lab: 12 printers of three kinds, staffed weekdays 08:00–20:00 and Saturday mornings. */
 export function busyLab(jobCount: number, seed: number): ScheduleInput {

@@ -13,7 +13,8 @@ import { migrateDatabase, openDatabase, type Db } from "../db/client";
 import { listTriagePage } from "../db/queries/triage";
 import { proposals, users, type NewProposal } from "../db/schema";
 import { latencyFigures, timeHostGet, type LatencyFigures } from "./host-get";
-import { mulberry32, seedDemo } from "../db/seed";
+import { seedDemo } from "../db/seed";
+import { mulberry32 } from "../lib/seeded-random";
 import { triageQuerySchema, type TriageQueryInput } from "../lib/validation/triage";
 
 /* ---------- A deterministic generator of invented proposals ---------- */

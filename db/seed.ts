@@ -24,6 +24,7 @@ import {
   type SeedPrinter,
   type SeedUser,
 } from "./seed-data";
+import { mulberry32 } from "../lib/seeded-random";
 
 /*
  * The demo seed: writes the invented "Harbor Street Print Lab" in one transaction. Every row has
@@ -98,17 +99,6 @@ function hashString(text: string): number {
   return h >>> 0;
 }
 
-/** mulberry32: a tiny seeded PRNG returning floats in [0, 1). */
-export function mulberry32(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
 
 function rngFor(label: string): () => number {
   return mulberry32(hashString(label));

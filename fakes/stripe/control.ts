@@ -5,6 +5,7 @@ import { StripeApiError } from "./errors";
 import { failNextRenewal, nextDueTime, processDueSubscriptions } from "./resources/billing";
 import { expireDueSessions, settleAsyncPayment, submitCheckout, type CheckoutSubmission, type SubmissionResult } from "./resources/checkout";
 import { newWebhookSecret, type Delivery, type WebhookEndpoint, type WebhookSender } from "./webhooks";
+import { seededShuffle as shuffle } from "../../lib/seeded-random";
 
 export type DeliveryMode = "auto" | "manual";
 
@@ -340,20 +341,3 @@ function json(status: number, body: unknown): Response {
   return HttpResponse.json(body as Record<string, unknown>, { status, headers: { "cache-control": "no-store" } });
 }
 
-/** Fisher–Yates with a small seeded generator (mulberry32), so a failing order can be replayed. */
-function shuffle<T>(items: T[], seed: number): T[] {
-  let state = seed >>> 0;
-  const random = () => {
-    state = (state + 0x6d2b79f5) >>> 0;
-    let t = state;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-  const result = [...items];
-  for (let i = result.length - 1; i > 0; i--) {
-    const j = Math.floor(random() * (i + 1));
-    [result[i], result[j]] = [result[j]!, result[i]!];
-  }
-  return result;
-}

@@ -1,4 +1,4 @@
-import { mulberry32 } from "./seeded-random";
+import { mulberry32 } from "../seeded-random";
 
 /*
  * Bradley–Terry ranking of variants from blind-pair votes.

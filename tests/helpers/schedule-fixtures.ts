@@ -1,5 +1,6 @@
 import { ALWAYS_STAFFED } from "@/lib/schedule";
 import type { LabCalendar, Schedule, ScheduleInput, ScheduleJob, SchedulePrinter } from "@/lib/schedule";
+import { mulberry32 } from "@/lib/seeded-random";
 
 export const HOUR = 3_600_000;
 export const MINUTE = 60_000;
@@ -65,13 +66,4 @@ export function bruteForceMakespan(durations: readonly number[], m: number): num
 }
 
 /** A small seeded generator (mulberry32) so instances are the same on every run. */
-export function seededRandom(seed: number): () => number {
-  let state = seed >>> 0;
-  return () => {
-    state = (state + 0x6d2b79f5) >>> 0;
-    let t = state;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
+export const seededRandom = mulberry32;

@@ -9,6 +9,7 @@ import { hasActiveMembership } from "@/db/queries/users";
 import { billingCustomers, ledgerEntries, membershipPlans, memberships, outbox, users, type Membership } from "@/db/schema";
 import { planPriceLookupKey } from "@/lib/memberships/plans";
 import { createTempDb } from "../helpers/temp-db";
+import { seededShuffle as shuffled } from "@/lib/seeded-random";
 
 /*
  * Filament Club memberships end to end in one process: the join and cancel server actions against
@@ -129,23 +130,6 @@ async function deliverAll(events: readonly (Stripe.Event | Record<string, unknow
   for (const event of events) expect((await deliver(event)).status).toBe(200);
 }
 
-/** A deterministic shuffle (mulberry32), so a failing order can be replayed. */
-function shuffled<T>(items: readonly T[], seed: number): T[] {
-  let state = seed >>> 0;
-  const random = () => {
-    state = (state + 0x6d2b79f5) >>> 0;
-    let t = state;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-  const copy = [...items];
-  for (let i = copy.length - 1; i > 0; i--) {
-    const j = Math.floor(random() * (i + 1));
-    [copy[i], copy[j]] = [copy[j]!, copy[i]!];
-  }
-  return copy;
-}
 
 const CARD_OK = { number: "4242 4242 4242 4242", expiry: "12 / 34", cvc: "123", name: "Test Member" };
 const nowFake = () => new Date(control.now() * 1000);

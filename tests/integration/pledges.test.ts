@@ -6,6 +6,7 @@ import { createFakeStripe } from "@/fakes/stripe/index";
 import { seedDemo } from "@/db/seed";
 import { campaigns, ledgerEntries, outbox, pledges, processorEvents, users, type Pledge } from "@/db/schema";
 import { createTempDb } from "../helpers/temp-db";
+import { seededShuffle as shuffled } from "@/lib/seeded-random";
 
 /*
  * The pledge path end to end in one process: the server action against the local fake processor
@@ -132,23 +133,6 @@ async function deliverAll(events: readonly (Stripe.Event | Record<string, unknow
   }
 }
 
-/** A deterministic shuffle (mulberry32), so a failure can be replayed. */
-function shuffled<T>(items: readonly T[], seed: number): T[] {
-  let state = seed >>> 0;
-  const random = () => {
-    state = (state + 0x6d2b79f5) >>> 0;
-    let t = state;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-  const copy = [...items];
-  for (let i = copy.length - 1; i > 0; i--) {
-    const j = Math.floor(random() * (i + 1));
-    [copy[i], copy[j]] = [copy[j]!, copy[i]!];
-  }
-  return copy;
-}
 
 function pledgeRow(id: string) {
   return db.select().from(pledges).where(eq(pledges.id, id)).get()!;

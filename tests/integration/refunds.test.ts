@@ -10,6 +10,7 @@ import { renderEmail } from "@/emails/render";
 import { createFakeStripe } from "@/fakes/stripe/index";
 import { OUTSIDE_PROCESSOR_MEMO } from "@/lib/pledges/refunds";
 import { createTempDb } from "../helpers/temp-db";
+import { seededShuffle as shuffled } from "@/lib/seeded-random";
 
 /*
  * Goal-or-refund end to end in one process: pledges paid on the local fake processor (in-process
@@ -164,23 +165,6 @@ async function processorRefundsFor(pledge: Pledge) {
   return (await sdk.refunds.list({ payment_intent: pledge.paymentIntentId!, limit: 100 })).data;
 }
 
-/** A deterministic shuffle (mulberry32), so a failure can be replayed. */
-function shuffled<T>(items: readonly T[], seed: number): T[] {
-  let state = seed >>> 0;
-  const random = () => {
-    state = (state + 0x6d2b79f5) >>> 0;
-    let t = state;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-  const copy = [...items];
-  for (let i = copy.length - 1; i > 0; i--) {
-    const j = Math.floor(random() * (i + 1));
-    [copy[i], copy[j]] = [copy[j]!, copy[i]!];
-  }
-  return copy;
-}
 
 describe("lapse at the deadline", () => {
   it("refunds every paid pledge exactly once, even with two sweeps at once and another later, and returns lab-fund money", async () => {

@@ -3,7 +3,7 @@ import { candidatePairs, chooseNextPair, pairKeyOf, type PairPhoto } from "@/lib
 import { rankVariants } from "@/lib/judging/ranking";
 import { judgingAccess, MIN_COMPARISONS_PER_VARIANT, MIN_RANKING_VOTES, rankingReadiness } from "@/lib/judging/rules";
 import { MIN_JUDGING_MS, PAIR_TICKET_LIFETIME_MS, issuePairTicket, openImageToken, readPairTicket, sealImageToken } from "@/lib/judging/tickets";
-import { mulberry32 } from "@/lib/judging/seeded-random";
+import { mulberry32 } from "@/lib/seeded-random";
 
 const photo = (id: string, pieceId: string, variantId: string, lightSetKey: string | null = null): PairPhoto => ({ id, pieceId, variantId, lightSetKey });
 

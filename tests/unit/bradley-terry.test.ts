@@ -8,7 +8,7 @@ import {
   type Comparisons,
   type Outcome,
 } from "@/lib/judging/bradley-terry";
-import { mulberry32 } from "@/lib/judging/seeded-random";
+import { mulberry32 } from "@/lib/seeded-random";
 
 /** Votes from a K×K table of wins: wins[i][j] = times i was preferred to j. */
 function fromWinTable(wins: number[][], ties: number[][] = []): Comparisons {
